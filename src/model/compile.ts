@@ -1,0 +1,123 @@
+import type { Scenario } from './scenario.js';
+
+/**
+ * A validated design compiled once into typed arrays. Hot loops work on class indices 0..n-1 and
+ * edge indices 0..m-1; class ids come back only at the boundary (`ids[k]`).
+ */
+export interface CompiledModel {
+  /** Number of classes. */
+  readonly n: number;
+  /** Class id of each index. */
+  readonly ids: readonly string[];
+  /** Index of each class id. */
+  readonly index: ReadonlyMap<string, number>;
+  /** Arrival rate λ_k of each class. */
+  readonly rates: Float64Array;
+  /** λ of all classes. */
+  readonly totalRate: number;
+  /** 1 when items of class k match each other (a self-loop [k, k]). */
+  readonly selfLoop: Uint8Array;
+  /** Number of compatibilities (edges), self-loops included. */
+  readonly m: number;
+  /** Edge e joins edgeA[e] and edgeB[e] (edgeA[e] <= edgeB[e]; equal for a self-loop). */
+  readonly edgeA: Int32Array;
+  readonly edgeB: Int32Array;
+  /** Neighbours of k other than k itself: adj[adjStart[k] .. adjStart[k+1]), ascending. */
+  readonly adjStart: Int32Array;
+  readonly adj: Int32Array;
+  /** adjEdge[p] is the edge index of the adjacency entry adj[p]. */
+  readonly adjEdge: Int32Array;
+  /** Edge index of the self-loop of k, or -1. */
+  readonly selfEdge: Int32Array;
+}
+
+/** Compiles from indices: `pairs` are [a, b] class indices (a may equal b). Pairs must be distinct. */
+export function compileGraph(ids: readonly string[], rates: ArrayLike<number>, pairs: ReadonlyArray<readonly [number, number]>): CompiledModel {
+  const n = ids.length;
+  const m = pairs.length;
+  const r = Float64Array.from(rates);
+  const edgeA = new Int32Array(m);
+  const edgeB = new Int32Array(m);
+  const selfLoop = new Uint8Array(n);
+  const selfEdge = new Int32Array(n).fill(-1);
+  const deg = new Int32Array(n);
+  for (let e = 0; e < m; e++) {
+    const [x, y] = pairs[e]!;
+    if (!(x >= 0 && x < n && y >= 0 && y < n)) throw new RangeError(`pair ${e} has a class index out of range`);
+    edgeA[e] = Math.min(x, y);
+    edgeB[e] = Math.max(x, y);
+    if (x === y) {
+      selfLoop[x] = 1;
+      selfEdge[x] = e;
+    } else {
+      deg[x]++;
+      deg[y]++;
+    }
+  }
+  const adjStart = new Int32Array(n + 1);
+  for (let k = 0; k < n; k++) adjStart[k + 1] = adjStart[k]! + deg[k]!;
+  const fill = adjStart.slice(0, n);
+  const adj = new Int32Array(adjStart[n]!);
+  const adjEdge = new Int32Array(adjStart[n]!);
+  for (let e = 0; e < m; e++) {
+    const a = edgeA[e]!;
+    const b = edgeB[e]!;
+    if (a === b) continue;
+    adj[fill[a]!] = b;
+    adjEdge[fill[a]!++] = e;
+    adj[fill[b]!] = a;
+    adjEdge[fill[b]!++] = e;
+  }
+  // sort each neighbour list ascending (insertion sort: lists are short)
+  for (let k = 0; k < n; k++) {
+    for (let p = adjStart[k]! + 1; p < adjStart[k + 1]!; p++) {
+      const v = adj[p]!;
+      const ev = adjEdge[p]!;
+      let q = p - 1;
+      while (q >= adjStart[k]! && adj[q]! > v) {
+        adj[q + 1] = adj[q]!;
+        adjEdge[q + 1] = adjEdge[q]!;
+        q--;
+      }
+      adj[q + 1] = v;
+      adjEdge[q + 1] = ev;
+    }
+  }
+  let total = 0;
+  for (let k = 0; k < n; k++) total += r[k]!;
+  const index = new Map<string, number>();
+  ids.forEach((id, k) => index.set(id, k));
+  return { n, ids: [...ids], index, rates: r, totalRate: total, selfLoop, m, edgeA, edgeB, adjStart, adj, adjEdge, selfEdge };
+}
+
+/** Compiles a validated scenario (its compatibilities, in file order). */
+export function compileModel(scenario: Scenario): CompiledModel {
+  const ids = scenario.classes.map((c) => c.id);
+  const index = new Map(ids.map((id, k) => [id, k] as const));
+  const pairs = scenario.compatibilities.map((c) => [index.get(c.pair[0])!, index.get(c.pair[1])!] as const);
+  return compileGraph(ids, scenario.classes.map((c) => c.rate), pairs);
+}
+
+/** The same classes with another edge list (edge indices follow `pairs`). */
+export function withPairs(model: CompiledModel, pairs: ReadonlyArray<readonly [number, number]>): CompiledModel {
+  return compileGraph(model.ids, model.rates, pairs);
+}
+
+/** The same graph with other rates. */
+export function withRates(model: CompiledModel, rates: ArrayLike<number>): CompiledModel {
+  return compileGraph(model.ids, rates, edgePairs(model));
+}
+
+/** Edge list as index pairs, in edge order. */
+export function edgePairs(model: CompiledModel): Array<[number, number]> {
+  const out: Array<[number, number]> = [];
+  for (let e = 0; e < model.m; e++) out.push([model.edgeA[e]!, model.edgeB[e]!]);
+  return out;
+}
+
+/** Index of the edge {a, b}, or -1. */
+export function findEdge(model: CompiledModel, a: number, b: number): number {
+  if (a === b) return model.selfEdge[a]!;
+  for (let p = model.adjStart[a]!; p < model.adjStart[a + 1]!; p++) if (model.adj[p] === b) return model.adjEdge[p]!;
+  return -1;
+}
