@@ -1,0 +1,114 @@
+import { TooLargeError, UnstableDesignError, type InstabilityCertificate } from '../errors.js';
+import type { CompiledModel } from '../model/compile.js';
+import { components, subModel } from '../model/components.js';
+import { countIndependentSets } from './count.js';
+import { maskGraph, MAX_COMPONENT_CLASSES, type MaskGraph } from './masks.js';
+import type { ExactResult } from './result.js';
+import { buildTrie } from './trie.js';
+import { prefixSums, SaturatedSet, tailPass } from './component.js';
+
+export interface ExactOptions {
+  /** Refuse (TooLargeError) when the independent sets of all components add up to more. */
+  readonly maxSets?: number;
+  /** Time unit used in the messages of errors. */
+  readonly timeUnit?: string;
+}
+
+/**
+ * Default memory guard: about 40 bytes per independent set (mask, μ, Ψ, T and the hash table),
+ * so 25 million sets stay near 1 GiB.
+ */
+export const DEFAULT_MAX_SETS = 25_000_000;
+
+/**
+ * Exact stationary metrics of a design under FCFM, from the product form by recursion over
+ * independent sets: O(n·|I|) time and O(|I|) memory per connected component (components are
+ * independent subsystems and are evaluated one by one).
+ *
+ * Throws UnstableDesignError (with a certificate found by the recursion itself) when some
+ * independent set A has λ(N(A)) <= λ(A ∖ S), and TooLargeError when the count exceeds maxSets or a
+ * component has more than 64 classes.
+ */
+export function evaluateExact(model: CompiledModel, options: ExactOptions = {}): ExactResult {
+  const maxSets = options.maxSets ?? DEFAULT_MAX_SETS;
+  const comps = components(model);
+  const parts: Array<{ members: Int32Array; sub: CompiledModel; edgeMap: Int32Array; g: MaskGraph; count: number }> = [];
+  let total = 0;
+  for (const members of comps.members) {
+    if (members.length > MAX_COMPONENT_CLASSES) {
+      throw new TooLargeError(
+        `a connected group of ${members.length} classes is beyond exact evaluation (at most ${MAX_COMPONENT_CLASSES} per group); use \`edgewise simulate\``,
+        Infinity,
+        maxSets,
+      );
+    }
+    const { sub, edgeMap } = subModel(model, members);
+    const g = maskGraph(sub);
+    const count = countIndependentSets(g, maxSets - total);
+    total += count;
+    if (total > maxSets) {
+      throw new TooLargeError(
+        `the design has more than ${maxSets.toLocaleString('en-US')} independent sets (the exact evaluation's memory guard); ` +
+          'raise --max-sets if memory allows (about 40 bytes each), or estimate with `edgewise simulate`',
+        total,
+        maxSets,
+      );
+    }
+    parts.push({ members, sub, edgeMap, g, count });
+  }
+
+  const n = model.n;
+  const backlog = new Float64Array(n);
+  const immediateMatch = new Float64Array(n);
+  const matchRates = new Float64Array(model.m);
+  let empty = 1;
+  const tol = 1e-12 * model.totalRate;
+  for (const { members, sub, edgeMap, g, count } of parts) {
+    const table = buildTrie(g, count);
+    const psi = new Float64Array(count);
+    try {
+      prefixSums(g, table, psi, tol);
+    } catch (e) {
+      if (e instanceof SaturatedSet) throw new UnstableDesignError(certificateOf(sub, g, e.lo, e.hi), options.timeUnit);
+      throw e;
+    }
+    const tail = new Float64Array(count);
+    const cm = tailPass(g, table, psi, tail);
+    empty /= cm.z;
+    const k = members.length;
+    for (let i = 0; i < k; i++) {
+      backlog[members[i]!] = cm.backlog[i]!;
+      immediateMatch[members[i]!] = cm.immediateMatch[i]!;
+    }
+    for (let e = 0; e < sub.m; e++) {
+      const a = sub.edgeA[e]!;
+      const b = sub.edgeB[e]!;
+      matchRates[edgeMap[e]!] = a === b ? cm.flow[a * k + a]! : cm.flow[a * k + b]! + cm.flow[b * k + a]!;
+    }
+  }
+  let backlogTotal = 0;
+  const wait = new Float64Array(n);
+  for (let i = 0; i < n; i++) {
+    backlogTotal += backlog[i]!;
+    wait[i] = backlog[i]! / model.rates[i]!;
+  }
+  return { independentSets: total, emptyProbability: empty, backlogTotal, backlog, wait, immediateMatch, matchRates };
+}
+
+/** The saturated set A gives I = A ∖ S with λ(I) = r(A) >= μ(A) = λ(N(A)) >= λ(N(I)). */
+function certificateOf(sub: CompiledModel, g: MaskGraph, lo: number, hi: number): InstabilityCertificate {
+  const set: string[] = [];
+  const nb = new Set<number>();
+  let demand = 0;
+  for (let i = 0; i < g.n; i++) {
+    const inSet = i < 32 ? (lo >>> i) & 1 : (hi >>> (i - 32)) & 1;
+    if (!inSet || g.loop[i]) continue;
+    set.push(sub.ids[i]!);
+    demand += sub.rates[i]!;
+    for (let p = sub.adjStart[i]!; p < sub.adjStart[i + 1]!; p++) nb.add(sub.adj[p]!);
+  }
+  const neighbours = [...nb].sort((a, b) => a - b);
+  let capacity = 0;
+  for (const j of neighbours) capacity += sub.rates[j]!;
+  return { set, neighbours: neighbours.map((j) => sub.ids[j]!), demand, capacity, reason: 'overloaded' };
+}
