@@ -27,7 +27,7 @@ export class SaturatedSet extends Error {
  * The walk keeps, for the set A_d on the stack, the indices of A_d ∖ {i} for its elements i; going
  * down to A_d ∪ {c} each becomes child(·, c). Throws SaturatedSet when μ(A) − r(A) <= tol.
  */
-export function prefixSums(g: MaskGraph, t: SetTrie, psi: Float64Array, tol: number): void {
+export function prefixSums(g: MaskGraph, t: SetTrie, psi: Float64Array, tol: number, psi1?: Float64Array): void {
   const n = g.n;
   const { rate, loop } = g;
   const { node, mu } = t;
@@ -41,6 +41,7 @@ export function prefixSums(g: MaskGraph, t: SetTrie, psi: Float64Array, tol: num
   const mLo = new Int32Array(D); // mask of A_d (for certificates)
   const mHi = new Int32Array(D);
   psi[0] = 1;
+  if (psi1) psi1[0] = 0;
   idx[0] = 0;
   todoLo[0] = node[1]!;
   todoHi[0] = node[2]!;
@@ -84,12 +85,31 @@ export function prefixSums(g: MaskGraph, t: SetTrie, psi: Float64Array, tol: num
     mHi[e] = c < 32 ? mHi[d]! : mHi[d]! | (1 << (c - 32));
     const den = mu[s]! - re;
     if (!(den > tol)) throw new SaturatedSet(mLo[e]!, mHi[e]!);
-    psi[s] = sum / den;
+    const ps = sum / den;
+    psi[s] = ps;
+    if (psi1) {
+      // first moment of the word length over words with set A (see firstMoment below)
+      let m1 = lc * (psi1[p]! + psi[p]!);
+      for (let j = 0; j < d; j++) {
+        const q = rem[nb + j]!;
+        m1 += rate[elem[j + 1]!]! * (psi1[q]! + psi[q]!);
+      }
+      psi1[s] = (m1 + re * ps) / den;
+    }
     todoLo[e] = node[3 * s + 1]!;
     todoHi[e] = node[3 * s + 2]!;
     d = e;
   }
 }
+
+/**
+ * firstMoment: with psi1 given, prefixSums also fills Ψ1(A) = Σ over words w with set A of
+ * weight(w)·|w|. Grouping by the last letter (a first occurrence of i, or a repeat of a letter of
+ * A ∖ S, each with factor λ/μ(A), and the length growing by one):
+ *   Ψ1(A) = [Σ_{i∈A} λ_i (Ψ1(A∖i) + Ψ(A∖i)) + r(A)(Ψ1(A) + Ψ(A))] / μ(A)
+ *   ⇒ Ψ1(A) = [Σ_{i∈A} λ_i (Ψ1(A∖i) + Ψ(A∖i)) + r(A) Ψ(A)] / (μ(A) − r(A)),
+ * so the mean total backlog Σ_A Ψ1(A) / Σ_A Ψ(A) needs no tail pass.
+ */
 
 /**
  * Tail sums T in decreasing mask order (every superset first: a post-order walk with children in

@@ -112,3 +112,55 @@ function certificateOf(sub: CompiledModel, g: MaskGraph, lo: number, hi: number)
   for (const j of neighbours) capacity += sub.rates[j]!;
   return { set, neighbours: neighbours.map((j) => sub.ids[j]!), demand, capacity, reason: 'overloaded' };
 }
+
+/** Total backlog only (no per-class figures): one forward pass, about a third of evaluateExact. */
+export interface BacklogOnly {
+  readonly independentSets: number;
+  readonly backlogTotal: number;
+  readonly emptyProbability: number;
+}
+
+/**
+ * Mean total backlog and P(empty) of a design under FCFM, from the prefix sums Ψ and their first
+ * moment Ψ1 alone (see prefixSums). Same errors as evaluateExact.
+ */
+export function evaluateBacklog(model: CompiledModel, options: ExactOptions = {}): BacklogOnly {
+  const maxSets = options.maxSets ?? DEFAULT_MAX_SETS;
+  const comps = components(model);
+  let total = 0;
+  let backlog = 0;
+  let empty = 1;
+  const tol = 1e-12 * model.totalRate;
+  const prepared: Array<{ sub: CompiledModel; g: MaskGraph; count: number }> = [];
+  for (const members of comps.members) {
+    if (members.length > MAX_COMPONENT_CLASSES) {
+      throw new TooLargeError(`a connected group of ${members.length} classes is beyond exact evaluation (at most ${MAX_COMPONENT_CLASSES} per group)`, Infinity, maxSets);
+    }
+    const { sub } = subModel(model, members);
+    const g = maskGraph(sub);
+    const count = countIndependentSets(g, maxSets - total);
+    total += count;
+    if (total > maxSets) throw new TooLargeError(`the design has more than ${maxSets} independent sets`, total, maxSets);
+    prepared.push({ sub, g, count });
+  }
+  for (const { sub, g, count } of prepared) {
+    const trie = buildTrie(g, count);
+    const psi = new Float64Array(count);
+    const psi1 = new Float64Array(count);
+    try {
+      prefixSums(g, trie, psi, tol, psi1);
+    } catch (e) {
+      if (e instanceof SaturatedSet) throw new UnstableDesignError(certificateOf(sub, g, e.lo, e.hi), options.timeUnit);
+      throw e;
+    }
+    let z = 0;
+    let m1 = 0;
+    for (let s = 0; s < count; s++) {
+      z += psi[s]!;
+      m1 += psi1[s]!;
+    }
+    backlog += m1 / z;
+    empty /= z;
+  }
+  return { independentSets: total, backlogTotal: backlog, emptyProbability: empty };
+}

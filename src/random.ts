@@ -1,0 +1,13 @@
+/**
+ * A small seeded generator for design-level randomness (random designs, searches). The simulator
+ * has its own fast streams in src/sim/. Nothing in src/ uses Math.random.
+ */
+export function seededRandom(seed: number): () => number {
+  let s = seed | 0;
+  return () => {
+    s = (s + 0x6d2b79f5) | 0;
+    let t = Math.imul(s ^ (s >>> 15), 1 | s);
+    t = (t + Math.imul(t ^ (t >>> 7), 61 | t)) ^ t;
+    return ((t ^ (t >>> 14)) >>> 0) / 4294967296;
+  };
+}
