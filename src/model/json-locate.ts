@@ -35,17 +35,38 @@ export function locateJsonError(text: string): JsonSyntaxProblem | undefined {
         i++;
         const e = text[i];
         if (e === 'u') {
-          if (!/^[0-9a-fA-F]{4}$/.test(text.slice(i + 1, i + 5))) fail('bad \\u escape');
-          i += 5;
+          i++;
+          for (let h = 0; h < 4; h++, i++) if (!/[0-9a-fA-F]/.test(text[i] ?? '')) fail('bad \\u escape: expected 4 hex digits');
         } else if (e !== undefined && '"\\/bfnrt'.includes(e)) i++;
         else fail('bad escape in string');
       } else i++;
     }
   };
+  const isDigit = (k: number): boolean => k < n && text.charCodeAt(k) >= 0x30 && text.charCodeAt(k) <= 0x39;
+  const digits = (what: string): void => {
+    if (!isDigit(i)) fail(i >= n ? `unexpected end of input, expected ${what}` : `expected ${what} but found '${text[i]}'`);
+    while (isDigit(i)) i++;
+  };
   const num = (): void => {
-    const m = /^-?(0|[1-9][0-9]*)(\.[0-9]+)?([eE][+-]?[0-9]+)?/.exec(text.slice(i, i + 400));
-    if (!m || m[0].length === 0) fail(`unexpected character '${text[i]}'`);
-    i += m![0].length;
+    const c = text[i];
+    if (c !== '-' && !isDigit(i)) fail(`unexpected character '${c}'`);
+    if (c === '-') i++;
+    if (text[i] === '0') i++;
+    else digits("a digit after '-'");
+    if (text[i] === '.') {
+      i++;
+      digits("a digit after the decimal point");
+    }
+    if (text[i] === 'e' || text[i] === 'E') {
+      i++;
+      if (text[i] === '+' || text[i] === '-') i++;
+      digits('a digit in the exponent');
+    }
+  };
+  const literal = (word: string): void => {
+    for (let k = 0; k < word.length; k++, i++) {
+      if (text[i] !== word[k]) fail(i >= n ? `unexpected end of input in '${word}'` : `invalid literal, expected '${word}' but found '${text[i]}'`);
+    }
   };
   const value = (): void => {
     ws();
@@ -97,9 +118,9 @@ export function locateJsonError(text: string): JsonSyntaxProblem | undefined {
         fail(i >= n ? 'unexpected end of input in array' : `expected ',' or ']' but found '${text[i]}'`);
       }
     } else if (c === '"') str();
-    else if (text.startsWith('true', i)) i += 4;
-    else if (text.startsWith('false', i)) i += 5;
-    else if (text.startsWith('null', i)) i += 4;
+    else if (c === 't') literal('true');
+    else if (c === 'f') literal('false');
+    else if (c === 'n') literal('null');
     else num();
   };
   try {

@@ -13,6 +13,7 @@ const show = (v: unknown): string => (v === undefined ? 'missing' : JSON.stringi
  */
 export function parseScenario(text: string, source?: string): Scenario {
   let doc: unknown;
+  if (text.charCodeAt(0) === 0xfeff) text = text.slice(1); // byte-order mark left by some editors
   try {
     doc = JSON.parse(text);
   } catch (e) {
@@ -92,7 +93,7 @@ export function validateScenario(doc: unknown, source?: string): Scenario {
       return undefined;
     }
     let ok = true;
-    for (const id of v as string[]) {
+    for (const id of new Set(v as string[])) {
       if (!ids.has(id)) {
         bad(path, `unknown class "${id}"${ids.size > 0 ? ` (known: ${[...ids].slice(0, 8).join(', ')}${ids.size > 8 ? ', …' : ''})` : ''}`);
         ok = false;
@@ -182,8 +183,8 @@ export function validateScenario(doc: unknown, source?: string): Scenario {
   }
 
   if (problems.length > 0) throw new InvalidScenarioError(problems, source);
-  const extra: Record<string, unknown> = {};
-  for (const [k, v] of Object.entries(doc)) if (!KNOWN_TOP.has(k)) extra[k] = v;
+  // fromEntries defines own properties, so even a "__proto__" key is kept as data
+  const extra: Record<string, unknown> = Object.fromEntries(Object.entries(doc).filter(([k]) => !KNOWN_TOP.has(k)));
   return {
     name: name as string,
     timeUnit: timeUnit as string,
