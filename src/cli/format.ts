@@ -1,3 +1,5 @@
+import Table from 'cli-table3';
+
 /** Number formatting shared by the human-readable outputs. */
 
 /** Fixed significant digits without trailing noise: 0.8333 → "0.833", 12 → "12". */
@@ -17,4 +19,15 @@ export function pct(x: number, digits = 1): string {
 export function round(x: number): number | null {
   if (!Number.isFinite(x)) return null;
   return Number(x.toPrecision(12));
+}
+
+
+/** A compact cli-table3 table (no rule between rows), shared by every command. */
+export function table(head: string[], colAligns?: Array<'left' | 'right' | 'center'>): Table.Table {
+  return new Table({
+    head,
+    ...(colAligns ? { colAligns } : {}),
+    style: { head: [], border: [], compact: true },
+    chars: { mid: '', 'left-mid': '', 'mid-mid': '', 'right-mid': '' },
+  });
 }

@@ -49,6 +49,24 @@ program
 
 // -- more commands are declared here (one block per command) --
 
+program
+  .command('simulate')
+  .description('simulate a matching policy: backlog, waits and percentiles, abandonment, with 95 % intervals')
+  .argument('<file>', 'scenario file (JSON)')
+  .addOption(new Option('--policy <name>', 'fcfm | longest | priority | random').default('fcfm'))
+  .option('--priority <list>', 'comma-separated class ids, first = most preferred partner (with --policy priority)')
+  .addOption(new Option('--arrivals <n>', 'measured arrivals per replication (default 2000000)').argParser(Number))
+  .addOption(new Option('--replications <r>', 'independent replications (default 8)').argParser(Number))
+  .addOption(new Option('--warmup <w>', 'arrivals discarded first in each replication (default arrivals/10)').argParser(Number))
+  .addOption(new Option('--seed <s>', 'random seed (default 1); the same seed gives the same output whatever --jobs').argParser(Number))
+  .addOption(new Option('--jobs <j>', 'worker threads (default: the number of cores)').argParser(Number))
+  .addOption(new Option('--max-waiting <n>', 'stop when more items wait at once (default 5000000)').argParser(Number))
+  .addOption(new Option('--max-sets <n>', 'memory guard of the exact column (independent sets)').argParser(Number))
+  .option('--timed', 'simulate the Poisson clock explicitly (slower; automatic when classes have patience)')
+  .option('--json', 'machine-readable output')
+  .action((file: string, opts: Record<string, unknown>) =>
+    action(async () => (await import('./commands/simulate.js')).simulateCommand)({ ...opts, file }));
+
 try {
   await program.parseAsync(process.argv);
 } catch (e) {
