@@ -1,0 +1,54 @@
+/** What checkStability returns. Everything is in class / edge indices; ids only at the boundary. */
+
+/** An independent self-loop-free set I with λ(I) ≥ λ(N(I)) (up to the tolerance of tolerance.ts). */
+export interface IndexCertificate {
+  readonly set: Int32Array;
+  readonly neighbours: Int32Array;
+  /** λ(I). */
+  readonly demand: number;
+  /** λ(N(I)). */
+  readonly capacity: number;
+  readonly reason: 'bipartite' | 'overloaded';
+}
+
+/** An independent self-loop-free set and its spare capacity slack = λ(N(I)) − λ(I). */
+export interface TightSet {
+  readonly set: Int32Array;
+  readonly neighbours: Int32Array;
+  readonly slack: number;
+  readonly demand: number;
+  readonly capacity: number;
+}
+
+export interface ComponentStability {
+  /** Class indices, ascending. */
+  readonly members: Int32Array;
+  /** No self-loop and two-colourable (an isolated class without self-loop counts). */
+  readonly bipartite: boolean;
+  readonly stable: boolean;
+  /** t* of the edge-flow LP (absent for bipartite components, where no LP is solved). */
+  readonly minEdgeFlow?: number;
+  readonly certificate?: IndexCertificate;
+}
+
+export interface StabilityReport {
+  readonly stable: boolean;
+  /** Connected components in order of their smallest class index. */
+  readonly components: readonly ComponentStability[];
+  /** Certificate of the first unstable component. */
+  readonly certificate?: IndexCertificate;
+  /** When stable: a strictly positive edge flow μ with Σ_{e∋k} a_{k,e} μ_e = λ_k (per edge index). */
+  readonly flow?: Float64Array;
+  /**
+   * Per class: how far λ_k may grow, the other rates fixed, before the design turns unstable;
+   * Infinity for a self-looped class; NaN for the classes of an unstable component.
+   */
+  readonly headroom: Float64Array;
+  /**
+   * The tightest independent set containing each class of the stable components (distinct),
+   * sorted by slack ascending, ties to the larger set.
+   */
+  readonly tightSets: readonly TightSet[];
+  /** When stable: the first tight set, i.e. the smallest slack over all independent sets. */
+  readonly bottleneck?: TightSet;
+}

@@ -1,0 +1,67 @@
+/**
+ * Sets of classes (index arrays) and their demand, capacity and slack: for an independent set I,
+ * demand λ(I), capacity λ(N(I)) and slack λ(N(I)) − λ(I).
+ */
+import type { CompiledModel } from '../model/compile.js';
+
+/** N(set), ascending: every neighbour of a member, the member itself when it has a self-loop. */
+export function neighbourhood(model: CompiledModel, set: ArrayLike<number>): Int32Array {
+  const mark = new Uint8Array(model.n);
+  for (let i = 0; i < set.length; i++) {
+    const k = set[i]!;
+    if (model.selfLoop[k]) mark[k] = 1;
+    for (let p = model.adjStart[k]!; p < model.adjStart[k + 1]!; p++) mark[model.adj[p]!] = 1;
+  }
+  const out: number[] = [];
+  for (let k = 0; k < model.n; k++) if (mark[k]) out.push(k);
+  return Int32Array.from(out);
+}
+
+/** λ(set). */
+export function rateOf(model: CompiledModel, set: ArrayLike<number>): number {
+  let s = 0;
+  for (let i = 0; i < set.length; i++) s += model.rates[set[i]!]!;
+  return s;
+}
+
+/** True when no two members are compatible and no member has a self-loop. */
+export function isIndependentLoopFree(model: CompiledModel, set: ArrayLike<number>): boolean {
+  const mark = new Uint8Array(model.n);
+  for (let i = 0; i < set.length; i++) mark[set[i]!] = 1;
+  for (let i = 0; i < set.length; i++) {
+    const k = set[i]!;
+    if (model.selfLoop[k]) return false;
+    for (let p = model.adjStart[k]!; p < model.adjStart[k + 1]!; p++) if (mark[model.adj[p]!]) return false;
+  }
+  return true;
+}
+
+/** An independent set with its neighbourhood, demand λ(I), capacity λ(N(I)) and slack. */
+export interface SetMeasure {
+  readonly set: Int32Array;
+  readonly neighbours: Int32Array;
+  readonly demand: number;
+  readonly capacity: number;
+  readonly slack: number;
+}
+
+/** Measures a set (sorted copy). */
+export function measure(model: CompiledModel, set: ArrayLike<number>): SetMeasure {
+  const sorted = Int32Array.from(set).sort();
+  const neighbours = neighbourhood(model, sorted);
+  const demand = rateOf(model, sorted);
+  const capacity = rateOf(model, neighbours);
+  return { set: sorted, neighbours, demand, capacity, slack: capacity - demand };
+}
+
+/** A \ N(A): independent and self-loop free whenever A is any set (see double-cover.ts). */
+export function stripNeighbours(model: CompiledModel, a: ArrayLike<number>): Int32Array {
+  const inA = new Uint8Array(model.n);
+  for (let i = 0; i < a.length; i++) inA[a[i]!] = 1;
+  const nb = neighbourhood(model, a);
+  const inN = new Uint8Array(model.n);
+  for (let i = 0; i < nb.length; i++) inN[nb[i]!] = 1;
+  const out: number[] = [];
+  for (let i = 0; i < a.length; i++) if (!inN[a[i]!]) out.push(a[i]!);
+  return Int32Array.from(out).sort();
+}
