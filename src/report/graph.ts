@@ -1,4 +1,4 @@
-import Graph from 'graphology';
+import { UndirectedGraph } from 'graphology';
 import type { CompiledModel } from '../model/compile.js';
 import type { ExactResult } from '../exact/result.js';
 
@@ -21,8 +21,8 @@ export interface CompatibilityAttributes {
  * "a|b"), for users who want to feed it to graphology's own algorithms or layouts. With a result,
  * the exact metrics are assigned as attributes.
  */
-export function toGraph(model: CompiledModel, result?: ExactResult): Graph<ClassAttributes, CompatibilityAttributes> {
-  const g = new Graph<ClassAttributes, CompatibilityAttributes>({ type: 'undirected', allowSelfLoops: true, multi: false });
+export function toGraph(model: CompiledModel, result?: ExactResult): UndirectedGraph<ClassAttributes, CompatibilityAttributes> {
+  const g = new UndirectedGraph<ClassAttributes, CompatibilityAttributes>({ type: 'undirected', allowSelfLoops: true, multi: false });
   for (let k = 0; k < model.n; k++) g.addNode(model.ids[k]!, { rate: model.rates[k]!, selfCompatible: model.selfLoop[k] === 1 });
   for (let e = 0; e < model.m; e++) {
     const a = model.ids[model.edgeA[e]!]!;
@@ -34,7 +34,7 @@ export function toGraph(model: CompiledModel, result?: ExactResult): Graph<Class
 }
 
 /** Writes the exact metrics onto an existing graph built by `toGraph` (the "assign" step). */
-export function assignMetrics(g: Graph<ClassAttributes, CompatibilityAttributes>, model: CompiledModel, result: ExactResult): void {
+export function assignMetrics(g: UndirectedGraph<ClassAttributes, CompatibilityAttributes>, model: CompiledModel, result: ExactResult): void {
   for (let k = 0; k < model.n; k++) {
     g.mergeNodeAttributes(model.ids[k]!, { backlog: result.backlog[k]!, wait: result.wait[k]!, immediateMatch: result.immediateMatch[k]! });
   }
