@@ -48,6 +48,42 @@ program
     action(async () => (await import('./commands/evaluate.js')).evaluateCommand)({ ...opts, file }));
 
 // -- more commands are declared here (one block per command) --
+program
+  .command('recommend')
+  .description('budgeted design: the cost/backlog Pareto set of stable designs, with baselines')
+  .argument('<file>', 'scenario file (JSON)')
+  .addOption(new Option('--budget <b>', "most a design may cost (default: the scenario's budget, else unlimited)").argParser(Number))
+  .addOption(new Option('--objective <name>', 'total | weighted | max-wait').default('total'))
+  .addOption(new Option('--jobs <j>', 'worker threads scoring designs (default 1); the output does not depend on it').argParser(Number))
+  .option('--exhaustive', 'enumerate every design (at most 20 removable compatibilities and candidates)')
+  .addOption(new Option('--seed <s>', 'seed of the local search (default 1)').argParser(Number))
+  .addOption(new Option('--max-sets <n>', 'memory guard of the exact evaluation (independent sets per design)').argParser(Number))
+  .option('--json', 'machine-readable output')
+  .option('--csv', 'one CSV row per design and baseline')
+  .action((file: string, opts: Record<string, unknown>) =>
+    action(async () => (await import('./commands/recommend.js')).recommendCommand)({ ...opts, file }));
+
+program
+  .command('compare')
+  .description('side by side: one column per scenario (or per budget): stability, bottleneck, backlog, worst wait, best design within budget')
+  .argument('<files...>', 'scenario files (JSON)')
+  .option('--budgets <list>', 'budgets to compare, e.g. 50,100,200 (one column per scenario and budget)')
+  .option('--json', 'machine-readable output')
+  .option('--csv', 'one CSV line per column')
+  .addOption(new Option('--jobs <n>', 'columns evaluated at once').argParser(Number))
+  .action((files: string[], opts: Record<string, unknown>) =>
+    action(async () => (await import('./commands/compare.js')).compareCommand)({ ...opts, files }));
+
+program
+  .command('report')
+  .description('one self-contained HTML report: graph, cost against waiting, waits per class, load sweep, single changes, demand futures')
+  .argument('<file>', 'scenario file (JSON)')
+  .requiredOption('-o, --output <file>', 'HTML file to write, e.g. report.html')
+  .addOption(new Option('--budget <b>', 'budget of the recommendation (default: the scenario\'s)').argParser(Number))
+  .addOption(new Option('--jobs <n>', 'worker threads of the recommender').argParser(Number))
+  .action((file: string, opts: { output: string } & Record<string, unknown>) =>
+    action(async () => (await import('./commands/report.js')).reportCommand)({ ...opts, file }));
+
 
 program
   .command('simulate')
@@ -61,7 +97,7 @@ program
   .addOption(new Option('--seed <s>', 'random seed (default 1); the same seed gives the same output whatever --jobs').argParser(Number))
   .addOption(new Option('--jobs <j>', 'worker threads (default: the number of cores)').argParser(Number))
   .addOption(new Option('--max-waiting <n>', 'stop when more items wait at once (default 5000000)').argParser(Number))
-  .addOption(new Option('--max-sets <n>', 'memory guard of the exact column (independent sets)').argParser(Number))
+  .addOption(new Option('--max-sets <n>', 'memory guard of the exact FCFM column, in independent sets (default 1000000)').argParser(Number))
   .option('--timed', 'simulate the Poisson clock explicitly (slower; automatic when classes have patience)')
   .option('--json', 'machine-readable output')
   .action((file: string, opts: Record<string, unknown>) =>

@@ -35,6 +35,12 @@ export interface SimulateOptions {
   readonly json?: boolean;
 }
 
+/**
+ * Default memory guard of the exact column: the simulator is also meant for designs too large for
+ * exact evaluation, so it gives up early (about 40 MB) unless --max-sets asks for more.
+ */
+export const EXACT_COLUMN_MAX_SETS = 1_000_000;
+
 interface StabilityNote {
   readonly stable: boolean | null;
   readonly certificate?: InstabilityCertificate;
@@ -62,7 +68,7 @@ function exactOf(model: CompiledModel, opts: SimulateOptions, policy: PolicyName
   if (impatient) return { reason: 'exact values assume patient items' };
   if (stable === false) return { reason: 'the design is unstable' };
   try {
-    return { exact: evaluateExact(model, { ...(opts.maxSets === undefined ? {} : { maxSets: opts.maxSets }), timeUnit }) };
+    return { exact: evaluateExact(model, { maxSets: opts.maxSets ?? EXACT_COLUMN_MAX_SETS, timeUnit }) };
   } catch (e) {
     if (e instanceof EdgewiseError) return { reason: e.message };
     throw e;
@@ -268,7 +274,8 @@ function toText(scenario: Scenario, model: CompiledModel, r: SimulationResult, e
   }
   lines.push(mt.toString());
   lines.push('');
-  if (r.replications > 1) lines.push(`± : half-width of the 95 % interval across replications (Student t, ${r.replications - 1} degrees of freedom).`);
+  const df = r.replications - 1;
+  if (r.replications > 1) lines.push(`± : half-width of the 95 % interval across replications (Student t, ${df} degree${df === 1 ? '' : 's'} of freedom).`);
   else lines.push('One replication: no interval (use --replications 2 or more).');
   lines.push('Wait percentiles pool all replications; items matched on arrival wait 0, abandoned items are left out.');
   if (!x && exact.reason) lines.push(`No exact column: ${exact.reason}.`);

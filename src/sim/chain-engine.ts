@@ -1,0 +1,407 @@
+import { waitingCapError } from './cap.js';
+import type { Counters } from './counters.js';
+import { flushAreas, newCounters, resetCounters } from './counters.js';
+import { Queues } from './queues.js';
+import type { SimModel } from './sim-model.js';
+import { EXACT_ARRIVAL_BINS, largeArrivalBin } from './wait-bins.js';
+
+const TWO_POW_M32 = 2.3283064365386963e-10;
+
+/**
+ * The patient engine (no class abandons): it simulates the sequence of arrival classes, which
+ * alone drives every policy, and integrates the Poisson clock out. Arrival epochs of the merged
+ * stream are separated by independent Exp(Λ) gaps, independent of the classes, so
+ *  - the time average of a count equals (in expectation, exactly) its average over post-arrival
+ *    states: each post-arrival state lasts 1/Λ on average (conditional Monte Carlo);
+ *  - an item that waits for K arrivals waits a Gamma(K, Λ) time: mean K/Λ, and its distribution is
+ *    recovered from the histogram of K (see percentiles.ts).
+ * The clock of the counters is therefore the arrival index.
+ *
+ * Queues hold arrival indices; headVal[k] is the index of the oldest waiting item of class k
+ * (Infinity when none), so FCFM is a minimum over the candidate list. Nothing is allocated per
+ * arrival.
+ */
+export class ChainEngine {
+  readonly counters: Counters;
+  /** Arrivals simulated so far (the clock). */
+  clock = 0;
+  /** Items waiting now. */
+  waiting = 0;
+  readonly counts: Int32Array;
+  readonly headVal: Float64Array;
+  readonly queues: Queues;
+  private readonly rng: Uint32Array;
+
+  constructor(
+    readonly model: SimModel,
+    rngState: Uint32Array,
+    readonly maxWaiting: number,
+  ) {
+    this.rng = Uint32Array.from(rngState);
+    this.queues = new Queues(model.n, false);
+    this.counts = this.queues.span; // no gone items here: span = count
+    this.headVal = new Float64Array(model.n).fill(Infinity);
+    this.counters = newCounters(model.n, model.m, 'arrivals');
+  }
+
+  /** Starts the measured window now (after the warm-up). */
+  startMeasuring(): void {
+    resetCounters(this.counters, this.clock);
+  }
+
+  /** Closes the integrals at the current clock (call once at the end). */
+  finish(): void {
+    flushAreas(this.counters, this.counts, this.clock);
+  }
+
+  /** Simulates `count` more arrivals. */
+  run(count: number): void {
+    if (this.model.policy === 0) {
+      if (this.model.n <= 32) this.runFcfmMask(count);
+      else this.runFcfm(count);
+    } else this.runOther(count);
+  }
+
+  private capError(): Error {
+    return waitingCapError(this.maxWaiting, this.counts, this.model.ids, `after ${this.clock.toLocaleString('en-US')} arrivals`);
+  }
+
+  private runFcfm(count: number): void {
+    const { n, nbrStart, nbr, nbrEdge } = this.model;
+    const keep = this.model.alias.keep;
+    const alias = this.model.alias.alias;
+    const { counts, headVal, queues } = this;
+    const { head, off, mask, cap } = queues;
+    const { arrivals, immediate, waitedMatched, waitSum, area, last, edgeMatches, hist, bins } = this.counters;
+    const maxWaiting = this.maxWaiting;
+    const scale = n * TWO_POW_M32;
+    let buf = queues.buf;
+    let s0 = this.rng[0]! | 0;
+    let s1 = this.rng[1]! | 0;
+    let s2 = this.rng[2]! | 0;
+    let s3 = this.rng[3]! | 0;
+    let t = this.clock;
+    let waiting = this.waiting;
+    try {
+      for (let it = 0; it < count; it++) {
+        // xoshiro128** (see random.ts)
+        const x5 = Math.imul(s1, 5);
+        const u = Math.imul((x5 << 7) | (x5 >>> 25), 9) >>> 0;
+        const sh = s1 << 9;
+        s2 ^= s0;
+        s3 ^= s1;
+        s1 ^= s2;
+        s0 ^= s3;
+        s2 ^= sh;
+        s3 = (s3 << 11) | (s3 >>> 21);
+        // class by alias table
+        const xf = u * scale;
+        let k = xf | 0;
+        if (xf - k >= keep[k]!) k = alias[k]!;
+        arrivals[k]++;
+        // oldest compatible waiting item
+        let bt = Infinity;
+        let bp = 0;
+        const pe = nbrStart[k + 1]!;
+        for (let p = nbrStart[k]!; p < pe; p++) {
+          const h = headVal[nbr[p]!]!;
+          if (h < bt) {
+            bt = h;
+            bp = p;
+          }
+        }
+        if (bt === Infinity) {
+          const c = counts[k]!;
+          if (c === cap[k]) {
+            queues.grow(k);
+            buf = queues.buf;
+          }
+          buf[off[k]! + ((head[k]! + c) & mask[k]!)] = t;
+          if (c === 0) headVal[k] = t;
+          area[k] += c * (t - last[k]!);
+          last[k] = t;
+          counts[k] = c + 1;
+          if (++waiting > maxWaiting) {
+            t++;
+            throw this.capError();
+          }
+        } else {
+          const best = nbr[bp]!;
+          const c = counts[best]!;
+          area[best] += c * (t - last[best]!);
+          last[best] = t;
+          const h = (head[best]! + 1) & mask[best]!;
+          head[best] = h;
+          counts[best] = c - 1;
+          headVal[best] = c > 1 ? buf[off[best]! + h]! : Infinity;
+          waiting--;
+          immediate[k]++;
+          edgeMatches[nbrEdge[bp]!]++;
+          const K = t - bt;
+          waitedMatched[best]++;
+          waitSum[best] += K;
+          hist[best * bins + (K < EXACT_ARRIVAL_BINS ? K | 0 : largeArrivalBin(K))]++;
+        }
+        t++;
+      }
+    } finally {
+      this.clock = t;
+      this.waiting = waiting;
+      this.rng[0] = s0;
+      this.rng[1] = s1;
+      this.rng[2] = s2;
+      this.rng[3] = s3;
+    }
+  }
+
+  /**
+   * FCFM for at most 32 classes: a bitmask of the classes with waiting items, intersected with the
+   * candidate mask of the arrival, gives the non-empty candidates directly (often none or one).
+   */
+  private runFcfmMask(count: number): void {
+    const { n, nbrStart, nbr, nbrEdge } = this.model;
+    const keep = this.model.alias.keep;
+    const alias = this.model.alias.alias;
+    const candMask = new Int32Array(n);
+    const edgeOf = new Int32Array(n * n).fill(-1);
+    for (let k = 0; k < n; k++) {
+      for (let p = nbrStart[k]!; p < nbrStart[k + 1]!; p++) {
+        candMask[k] |= 1 << nbr[p]!;
+        edgeOf[k * n + nbr[p]!] = nbrEdge[p]!;
+      }
+    }
+    const { counts, headVal, queues } = this;
+    const { head, off, mask, cap } = queues;
+    const { arrivals, immediate, waitedMatched, waitSum, area, last, edgeMatches, hist, bins } = this.counters;
+    const maxWaiting = this.maxWaiting;
+    const scale = n * TWO_POW_M32;
+    let buf = queues.buf;
+    let s0 = this.rng[0]! | 0;
+    let s1 = this.rng[1]! | 0;
+    let s2 = this.rng[2]! | 0;
+    let s3 = this.rng[3]! | 0;
+    let t = this.clock;
+    let waiting = this.waiting;
+    let busy = 0;
+    for (let k = 0; k < n; k++) if (counts[k]! > 0) busy |= 1 << k;
+    try {
+      for (let it = 0; it < count; it++) {
+        const x5 = Math.imul(s1, 5);
+        const u = Math.imul((x5 << 7) | (x5 >>> 25), 9) >>> 0;
+        const sh = s1 << 9;
+        s2 ^= s0;
+        s3 ^= s1;
+        s1 ^= s2;
+        s0 ^= s3;
+        s2 ^= sh;
+        s3 = (s3 << 11) | (s3 >>> 21);
+        const xf = u * scale;
+        let k = xf | 0;
+        if (xf - k >= keep[k]!) k = alias[k]!;
+        arrivals[k]++;
+        let cand = busy & candMask[k]!;
+        if (cand === 0) {
+          const c = counts[k]!;
+          if (c === cap[k]) {
+            queues.grow(k);
+            buf = queues.buf;
+          }
+          buf[off[k]! + ((head[k]! + c) & mask[k]!)] = t;
+          if (c === 0) {
+            headVal[k] = t;
+            busy |= 1 << k;
+          }
+          area[k] += c * (t - last[k]!);
+          last[k] = t;
+          counts[k] = c + 1;
+          if (++waiting > maxWaiting) {
+            t++;
+            throw this.capError();
+          }
+        } else {
+          let best = 31 - Math.clz32(cand & -cand);
+          let bt = headVal[best]!;
+          cand &= cand - 1;
+          while (cand !== 0) {
+            const j = 31 - Math.clz32(cand & -cand);
+            const h = headVal[j]!;
+            if (h < bt) {
+              bt = h;
+              best = j;
+            }
+            cand &= cand - 1;
+          }
+          const c = counts[best]!;
+          area[best] += c * (t - last[best]!);
+          last[best] = t;
+          const h = (head[best]! + 1) & mask[best]!;
+          head[best] = h;
+          counts[best] = c - 1;
+          if (c > 1) headVal[best] = buf[off[best]! + h]!;
+          else {
+            headVal[best] = Infinity;
+            busy &= ~(1 << best);
+          }
+          waiting--;
+          immediate[k]++;
+          edgeMatches[edgeOf[k * n + best]!]++;
+          const K = t - bt;
+          waitedMatched[best]++;
+          waitSum[best] += K;
+          hist[best * bins + (K < EXACT_ARRIVAL_BINS ? K | 0 : largeArrivalBin(K))]++;
+        }
+        t++;
+      }
+    } finally {
+      this.clock = t;
+      this.waiting = waiting;
+      this.rng[0] = s0;
+      this.rng[1] = s1;
+      this.rng[2] = s2;
+      this.rng[3] = s3;
+    }
+  }
+
+  /** longest, priority and random (the last branch, FCFM by scanning, is not reached from run()). */
+  private runOther(count: number): void {
+    const { n, nbrStart, nbr, nbrEdge, rank, policy } = this.model;
+    const keep = this.model.alias.keep;
+    const alias = this.model.alias.alias;
+    const { counts, headVal, queues } = this;
+    const { head, off, mask, cap } = queues;
+    const { arrivals, immediate, waitedMatched, waitSum, area, last, edgeMatches, hist, bins } = this.counters;
+    const maxWaiting = this.maxWaiting;
+    const scale = n * TWO_POW_M32;
+    let buf = queues.buf;
+    let s0 = this.rng[0]! | 0;
+    let s1 = this.rng[1]! | 0;
+    let s2 = this.rng[2]! | 0;
+    let s3 = this.rng[3]! | 0;
+    let t = this.clock;
+    let waiting = this.waiting;
+    try {
+      for (let it = 0; it < count; it++) {
+        let x5 = Math.imul(s1, 5);
+        let u = Math.imul((x5 << 7) | (x5 >>> 25), 9) >>> 0;
+        let sh = s1 << 9;
+        s2 ^= s0;
+        s3 ^= s1;
+        s1 ^= s2;
+        s0 ^= s3;
+        s2 ^= sh;
+        s3 = (s3 << 11) | (s3 >>> 21);
+        const xf = u * scale;
+        let k = xf | 0;
+        if (xf - k >= keep[k]!) k = alias[k]!;
+        arrivals[k]++;
+        const ps = nbrStart[k]!;
+        const pe = nbrStart[k + 1]!;
+        let bp = -1;
+        if (policy === 1) {
+          // longest: most waiting items, ties to the oldest item
+          let bc = 0;
+          let bt = Infinity;
+          for (let p = ps; p < pe; p++) {
+            const j = nbr[p]!;
+            const c = counts[j]!;
+            if (c > bc || (c === bc && c > 0 && headVal[j]! < bt)) {
+              bc = c;
+              bt = headVal[j]!;
+              bp = p;
+            }
+          }
+        } else if (policy === 2) {
+          // priority: lowest rank among non-empty classes, ties to the oldest item
+          let br = 0x7fffffff;
+          let bt = Infinity;
+          for (let p = ps; p < pe; p++) {
+            const j = nbr[p]!;
+            const h = headVal[j]!;
+            if (h === Infinity) continue;
+            const r = rank[j]!;
+            if (r < br || (r === br && h < bt)) {
+              br = r;
+              bt = h;
+              bp = p;
+            }
+          }
+        } else if (policy === 3) {
+          // random: uniform among the non-empty compatible classes
+          let nonEmpty = 0;
+          for (let p = ps; p < pe; p++) if (counts[nbr[p]!]! > 0) nonEmpty++;
+          if (nonEmpty > 0) {
+            let pick = 0;
+            if (nonEmpty > 1) {
+              x5 = Math.imul(s1, 5);
+              u = Math.imul((x5 << 7) | (x5 >>> 25), 9) >>> 0;
+              sh = s1 << 9;
+              s2 ^= s0;
+              s3 ^= s1;
+              s1 ^= s2;
+              s0 ^= s3;
+              s2 ^= sh;
+              s3 = (s3 << 11) | (s3 >>> 21);
+              pick = (u * nonEmpty * TWO_POW_M32) | 0;
+            }
+            for (let p = ps; p < pe; p++) {
+              if (counts[nbr[p]!]! > 0 && pick-- === 0) {
+                bp = p;
+                break;
+              }
+            }
+          }
+        } else {
+          let bt = Infinity;
+          for (let p = ps; p < pe; p++) {
+            const h = headVal[nbr[p]!]!;
+            if (h < bt) {
+              bt = h;
+              bp = p;
+            }
+          }
+        }
+        if (bp < 0) {
+          const c = counts[k]!;
+          if (c === cap[k]) {
+            queues.grow(k);
+            buf = queues.buf;
+          }
+          buf[off[k]! + ((head[k]! + c) & mask[k]!)] = t;
+          if (c === 0) headVal[k] = t;
+          area[k] += c * (t - last[k]!);
+          last[k] = t;
+          counts[k] = c + 1;
+          if (++waiting > maxWaiting) {
+            t++;
+            throw this.capError();
+          }
+        } else {
+          const best = nbr[bp]!;
+          const bt = headVal[best]!;
+          const c = counts[best]!;
+          area[best] += c * (t - last[best]!);
+          last[best] = t;
+          const h = (head[best]! + 1) & mask[best]!;
+          head[best] = h;
+          counts[best] = c - 1;
+          headVal[best] = c > 1 ? buf[off[best]! + h]! : Infinity;
+          waiting--;
+          immediate[k]++;
+          edgeMatches[nbrEdge[bp]!]++;
+          const K = t - bt;
+          waitedMatched[best]++;
+          waitSum[best] += K;
+          hist[best * bins + (K < EXACT_ARRIVAL_BINS ? K | 0 : largeArrivalBin(K))]++;
+        }
+        t++;
+      }
+    } finally {
+      this.clock = t;
+      this.waiting = waiting;
+      this.rng[0] = s0;
+      this.rng[1] = s1;
+      this.rng[2] = s2;
+      this.rng[3] = s3;
+    }
+  }
+}

@@ -1,0 +1,136 @@
+import { UsageError } from '../errors.js';
+import type { CompiledModel } from '../model/compile.js';
+import type { PolicyName } from './policy.js';
+import { isPolicyName, POLICIES } from './policy.js';
+import type { ReplicationPlan } from './record.js';
+import { plannedArrivals, runReplications } from './runner.js';
+import { buildSimModel } from './sim-model.js';
+import { ReplicationPool, type ReplicationSummary } from './summary.js';
+
+export const SIM_DEFAULTS = {
+  arrivals: 2_000_000,
+  replications: 8,
+  seed: 1,
+  maxWaiting: 5_000_000,
+} as const;
+
+export interface SimulationOptions {
+  readonly policy?: PolicyName;
+  /** Priority list of class ids, first = most preferred partner (policy "priority" only). */
+  readonly priority?: readonly string[];
+  /** Mean patience per class (model order); 0, Infinity or NaN = patient. */
+  readonly patience?: ArrayLike<number>;
+  /** Measured arrivals per replication. Default 2 000 000. */
+  readonly arrivals?: number;
+  /** Arrivals discarded before measuring. Default: a tenth of `arrivals`. */
+  readonly warmup?: number;
+  /** Default 8. */
+  readonly replications?: number;
+  /** Non-negative safe integer. Default 1. */
+  readonly seed?: number;
+  /** Stop when more items wait at once (all classes). Default 5 000 000. */
+  readonly maxWaiting?: number;
+  /** Worker threads at most. Default 1 (this thread). */
+  readonly jobs?: number;
+  /** Force the timed engine for patient designs too (it is always used with impatience). */
+  readonly timed?: boolean;
+  /** Worker script override (see RunnerOptions.workerUrl). */
+  readonly workerUrl?: URL | null;
+  /** Called with (arrivals simulated so far, arrivals planned), warm-ups included. */
+  readonly onProgress?: (done: number, total: number) => void;
+}
+
+export interface SimulationResult extends ReplicationSummary {
+  readonly policy: PolicyName;
+  /** Measured arrivals per replication. */
+  readonly arrivals: number;
+  readonly warmup: number;
+  readonly seed: number;
+  readonly maxWaiting: number;
+  /** "arrival-chain" for patient designs (Poisson clock integrated out), "timed" otherwise. */
+  readonly engine: 'arrival-chain' | 'timed';
+  /** Mean patience used per class (Infinity = patient). */
+  readonly patience: Float64Array;
+}
+
+function positiveInt(name: string, v: number | undefined, fallback: number, min = 1): number {
+  const x = v ?? fallback;
+  if (!Number.isSafeInteger(x) || x < min) throw new UsageError(`${name} must be an integer >= ${min}, found ${String(v)}`);
+  return x;
+}
+
+/** Checks the options and fills in the defaults (throws UsageError). */
+export function resolveSimulation(model: CompiledModel, options: SimulationOptions) {
+  const policy = options.policy ?? 'fcfm';
+  if (!isPolicyName(policy)) throw new UsageError(`unknown policy "${String(policy)}" (choose one of ${POLICIES.join(', ')})`);
+  let priority: number[] | undefined;
+  if (options.priority !== undefined) {
+    if (policy !== 'priority') throw new UsageError('a priority list only applies with the priority policy');
+    priority = options.priority.map((id) => {
+      const k = model.index.get(id);
+      if (k === undefined) throw new UsageError(`unknown class "${id}" in the priority list (known: ${model.ids.slice(0, 8).join(', ')}${model.n > 8 ? ', …' : ''})`);
+      return k;
+    });
+    if (new Set(priority).size !== priority.length) throw new UsageError('the priority list names a class twice');
+  } else if (policy === 'priority') {
+    throw new UsageError('the priority policy needs a priority list (first = most preferred partner class)');
+  }
+  const arrivals = positiveInt('arrivals', options.arrivals, SIM_DEFAULTS.arrivals);
+  const warmup = positiveInt('warmup', options.warmup, Math.floor(arrivals / 10), 0);
+  const replications = positiveInt('replications', options.replications, SIM_DEFAULTS.replications);
+  const seed = positiveInt('seed', options.seed, SIM_DEFAULTS.seed, 0);
+  const maxWaiting = positiveInt('max-waiting', options.maxWaiting, SIM_DEFAULTS.maxWaiting);
+  const jobs = positiveInt('jobs', options.jobs, 1);
+  if (options.patience && options.patience.length !== model.n) throw new UsageError('patience must give one value per class');
+  const patience = Float64Array.from({ length: model.n }, (_, k) => {
+    const p = options.patience?.[k];
+    return p !== undefined && p > 0 && Number.isFinite(p) ? p : Infinity;
+  });
+  const sim = buildSimModel(model, { policy, ...(priority ? { priority } : {}), patience });
+  const plan: ReplicationPlan = { arrivals, warmup, maxWaiting, timed: options.timed === true };
+  return { policy, sim, plan, replications, seed, jobs, patience };
+}
+
+/**
+ * Simulates the design under a matching policy: independent replications, each from its own
+ * random stream (seed, index), run on up to `jobs` worker threads; returns means and 95 % intervals
+ * across replications. The result depends on the seed only, never on `jobs`.
+ *
+ * Throws UsageError for bad options and TooLargeError when a queue outgrows `maxWaiting`.
+ */
+export async function simulate(model: CompiledModel, options: SimulationOptions = {}): Promise<SimulationResult> {
+  const { policy, sim, plan, replications, seed, jobs, patience } = resolveSimulation(model, options);
+  const pool = new ReplicationPool(model.n, model.m, model.totalRate, replications);
+  const total = plannedArrivals(plan, replications);
+  let done = 0;
+  const onProgress = options.onProgress;
+  await runReplications(
+    sim,
+    plan,
+    seed,
+    replications,
+    {
+      jobs,
+      ...(options.workerUrl === undefined ? {} : { workerUrl: options.workerUrl }),
+      ...(onProgress
+        ? {
+            onProgress: (a: number) => {
+              done += a;
+              onProgress(done, total);
+            },
+          }
+        : {}),
+    },
+    (record) => pool.add(record),
+  );
+  return {
+    ...pool.summary(),
+    policy,
+    arrivals: plan.arrivals,
+    warmup: plan.warmup,
+    seed,
+    maxWaiting: plan.maxWaiting,
+    engine: plan.timed || sim.impatient ? 'timed' : 'arrival-chain',
+    patience,
+  };
+}

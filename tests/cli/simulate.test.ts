@@ -1,0 +1,183 @@
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { simulateCommand, type SimulateOptions } from '../../src/cli/commands/simulate.js';
+import { runWithExitCode } from '../../src/cli/exit.js';
+import { memoryIO } from '../../src/cli/io.js';
+import { compileModel } from '../../src/model/compile.js';
+import { parseScenario } from '../../src/model/validate.js';
+import { permutationOracle } from '../helpers/permutation-oracle.js';
+
+const dir = mkdtempSync(join(tmpdir(), 'edgewise-simulate-'));
+function scenarioFile(name: string, doc: unknown): string {
+  const path = join(dir, name);
+  writeFileSync(path, JSON.stringify(doc, null, 2));
+  return path;
+}
+
+// invented: a matchmaking ladder where neighbouring tiers play each other and the top tier plays itself
+const ladder = {
+  name: 'Ladder matchmaking (invented)',
+  timeUnit: 'minute',
+  classes: [
+    { id: 'bronze', rate: 3 },
+    { id: 'silver', rate: 2.5 },
+    { id: 'gold', rate: 2 },
+    { id: 'master', rate: 1 },
+  ],
+  compatibilities: [['bronze', 'silver'], ['silver', 'gold'], ['bronze', 'gold'], ['gold', 'master'], ['master', 'master']],
+};
+const ladderFile = scenarioFile('ladder.json', ladder);
+
+// invented and unstable: two suburbs can only share rides through one small station zone
+const unstableFile = scenarioFile('unstable.json', {
+  name: 'Suburb shuttles (invented, unstable)',
+  timeUnit: 'hour',
+  classes: [
+    { id: 'station', rate: 2 },
+    { id: 'east', rate: 1.5 },
+    { id: 'west', rate: 1.5 },
+  ],
+  compatibilities: [['station', 'station'], ['station', 'east'], ['station', 'west']],
+});
+
+const impatientFile = scenarioFile('impatient.json', {
+  ...ladder,
+  classes: ladder.classes.map((c) => (c.id === 'master' ? { ...c, patience: 3 } : c)),
+});
+
+const quick = { arrivals: 20_000, replications: 4, seed: 2, jobs: 1 } as const;
+
+async function run(opts: Partial<SimulateOptions> & { file: string }) {
+  const io = memoryIO(dir);
+  const code = await runWithExitCode(io, () => simulateCommand({ ...quick, ...opts }, io));
+  return { code, out: io.stdout(), err: io.stderr() };
+}
+
+describe('edgewise simulate --json', () => {
+  it('has the documented shape, ids at the boundary, and nothing on stderr', async () => {
+    const r = await run({ file: ladderFile, json: true });
+    expect(r.code).toBe(0);
+    expect(r.err).toBe('');
+    const doc = JSON.parse(r.out);
+    expect(doc).toMatchObject({ policy: 'fcfm', replications: 4, arrivals: 20_000, seed: 2, engine: 'arrival-chain' });
+    expect(Object.keys(doc.backlog.byClass)).toEqual(['bronze', 'silver', 'gold', 'master']);
+    expect(doc.backlog.total.ci95).toHaveLength(2);
+    expect(doc.backlog.total.ci95[0]).toBeLessThanOrEqual(doc.backlog.total.mean);
+    for (const key of ['mean', 'ci95', 'p50', 'p90', 'p99', 'p99ci95']) expect(doc.wait.byClass.gold).toHaveProperty(key);
+    expect(doc.matchRates.map((m: { pair: string[] }) => m.pair)).toEqual(ladder.compatibilities);
+    expect(doc.abandonment.byClass.bronze.rate.mean).toBe(0);
+    expect(doc.abandonment.byClass.bronze.patience).toBeNull(); // infinite patience
+    expect(doc.stability.stable).toBe(true);
+  });
+
+  it('the exact column carries the FCFM product-form values of the right classes and pairs', async () => {
+    // reference: permutation-sum form of "A product form for the general stochastic matching model"
+    // (J. Appl. Probab. 2021), tests/helpers/permutation-oracle.ts
+    const oracle = permutationOracle(compileModel(parseScenario(JSON.stringify(ladder))));
+    const doc = JSON.parse((await run({ file: ladderFile, json: true })).out);
+    expect(doc.exact.available).toBe(true);
+    ladder.classes.forEach((c, k) => {
+      expect(doc.backlog.byClass[c.id].exact).toBeCloseTo(oracle.backlog[k]!, 9);
+      expect(doc.wait.byClass[c.id].exact).toBeCloseTo(oracle.wait[k]!, 9);
+      expect(doc.immediateMatch.byClass[c.id].exact).toBeCloseTo(oracle.immediateMatch[k]!, 9);
+    });
+    expect(doc.backlog.total.exact).toBeCloseTo(oracle.backlogTotal, 9);
+    doc.matchRates.forEach((m: { rate: { exact: number } }, e: number) => expect(m.rate.exact).toBeCloseTo(oracle.matchRates[e]!, 9));
+  });
+
+  it('no exact column for other policies, impatient classes, or beyond --max-sets', async () => {
+    const longest = JSON.parse((await run({ file: ladderFile, json: true, policy: 'longest' })).out);
+    expect(longest.exact).toEqual({ available: false, reason: 'exact values exist for FCFM only' });
+    expect(longest.backlog.total.exact).toBeUndefined();
+    const impatient = JSON.parse((await run({ file: impatientFile, json: true })).out);
+    expect(impatient.exact.available).toBe(false);
+    expect(impatient.engine).toBe('timed');
+    expect(impatient.abandonment.byClass.master.patience).toBe(3);
+    expect(impatient.abandonment.byClass.master.rate.mean).toBeGreaterThan(0);
+    const tooLarge = JSON.parse((await run({ file: ladderFile, json: true, maxSets: 2 })).out);
+    expect(tooLarge.exact.available).toBe(false);
+    expect(tooLarge.exact.reason).toMatch(/independent sets/);
+  });
+
+  it('priority lists are echoed and matter only where a choice exists', async () => {
+    // bronze and gold are compatible, so they never wait together: ranking them changes nothing
+    const a = JSON.parse((await run({ file: ladderFile, json: true, policy: 'priority', priority: 'bronze,gold' })).out);
+    const b = JSON.parse((await run({ file: ladderFile, json: true, policy: 'priority', priority: 'gold,bronze' })).out);
+    expect(a.priority).toEqual(['bronze', 'gold']);
+    expect(b.backlog).toEqual(a.backlog);
+    // silver and master can wait together, and a gold arrival must choose between them
+    const c = JSON.parse((await run({ file: ladderFile, json: true, policy: 'priority', priority: 'silver,master' })).out);
+    const d = JSON.parse((await run({ file: ladderFile, json: true, policy: 'priority', priority: 'master,silver' })).out);
+    expect(c.backlog.byClass.master.mean).not.toBe(d.backlog.byClass.master.mean);
+  });
+
+  it('unstable designs: simulated, with the certificate in the JSON and no stderr', async () => {
+    const r = await run({ file: unstableFile, json: true, arrivals: 5_000 });
+    expect(r.code).toBe(0);
+    expect(r.err).toBe('');
+    const doc = JSON.parse(r.out);
+    expect(doc.stability.stable).toBe(false);
+    expect(doc.stability.certificate.set).toEqual(['east', 'west']);
+    expect(doc.stability.certificate.neighbours).toEqual(['station']);
+    expect(doc.exact.available).toBe(false);
+  });
+});
+
+describe('edgewise simulate (tables)', () => {
+  it('prints per-class and per-compatibility tables with the exact column', async () => {
+    const r = await run({ file: ladderFile });
+    expect(r.code).toBe(0);
+    expect(r.err).toBe('');
+    expect(r.out).toContain('Ladder matchmaking (invented): simulated under FCFM');
+    expect(r.out).toMatch(/class\s+│ backlog\s+│ exact/);
+    expect(r.out).toContain('mean wait (minute)');
+    expect(r.out).toContain('master (self)');
+    expect(r.out).toContain('Student t, 3 degrees of freedom');
+  });
+
+  it('abandonment columns appear when a class has patience', async () => {
+    const r = await run({ file: impatientFile });
+    expect(r.out).toContain('abandon /minute');
+    expect(r.out).toContain('No exact column: exact values assume patient items.');
+  });
+
+  it('warns on stderr about an unstable design, with its certificate', async () => {
+    const r = await run({ file: unstableFile, arrivals: 5_000 });
+    expect(r.code).toBe(0);
+    expect(r.err).toMatch(/^warning: unstable: items from east and west \(3\.0\/hour\) can only be matched with station \(2\.0\/hour\)/);
+  });
+});
+
+describe('edgewise simulate: errors and exit codes', () => {
+  it('stops cleanly at the memory cap (exit 4, clear message)', async () => {
+    const r = await run({ file: unstableFile, arrivals: 200_000, maxWaiting: 1_000 });
+    expect(r.code).toBe(4);
+    expect(r.out).toBe('');
+    expect(r.err).toMatch(/edgewise: simulation stopped: more than 1,000 items were waiting at once .* of class (east|west)\)/);
+    expect(r.err).not.toMatch(/internal error/);
+  });
+
+  it('usage errors exit 2', async () => {
+    for (const [opts, message] of [
+      [{ policy: 'priority' }, /needs --priority/],
+      [{ priority: 'gold' }, /only applies with --policy priority/],
+      [{ policy: 'oldest-first' }, /--policy must be one of fcfm, longest, priority, random/],
+      [{ policy: 'priority', priority: 'gold,platinum' }, /unknown class "platinum"/],
+      [{ arrivals: 0 }, /arrivals must be an integer >= 1/],
+      [{ replications: Number.NaN }, /replications must be an integer/],
+      [{ maxSets: -3 }, /--max-sets must be a positive integer/],
+    ] as const) {
+      const r = await run({ file: ladderFile, ...(opts as Partial<SimulateOptions>) });
+      expect(r.code, JSON.stringify(opts)).toBe(2);
+      expect(r.err).toMatch(message);
+    }
+  });
+
+  it('a missing scenario file exits 2', async () => {
+    const r = await run({ file: join(dir, 'nope.json') });
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/no such file/);
+  });
+});
