@@ -40,3 +40,18 @@ export { compareScenarios, type CompareColumn, type CompareInput, type CompareOp
 export { compareRecord, compareCsv } from './report/compare-output.js';
 export { layoutGraph, type Layout } from './report/layout.js';
 export { escapeHtml } from './report/escape.js';
+export { readDesignFields, type DesignFields } from './model/design-fields.js';
+export { designProblem, designCost, designChanges, designPairs, type DesignProblem, type Toggle, type ToggleKind, type ForcedRemoval } from './design/problem.js';
+export { recommend, designDetails, type RecommendOptions, type RecommendProgress, type Recommendation, type DesignDetails, type BaselineResult } from './design/recommend.js';
+export { OBJECTIVES, objectiveValue, type ObjectiveName } from './design/objective.js';
+export { paretoFront, type ParetoPoint } from './design/pareto.js';
+export { cheapestStableDesign, maxMinFlowDesign, flowMilp, type MilpDesign, type FlowMilpOptions } from './design/milp.js';
+export { baselines, type Baseline, type BaselineName } from './design/baselines.js';
+export { recommendationRecord, recommendationCsv, type RecommendationRecord } from './report/recommendation.js';
+export { singleChangeEvaluator, DEFAULT_CHANGE_MAX_SETS, type ChangeResult, type SingleChangeEvaluator, type SingleChangeOptions } from './exact/single-change.js';
+export { sensitivity, type SensitivityEntry, type SensitivityResult, type SensitivityOptions } from './design/sensitivity.js';
+export { bottlenecksOf, relationTo, type Bottleneck, type BottleneckRelation } from './design/bottleneck-relation.js';
+export { sweep, applyChanges, type SweepResult, type SweepCurve, type SweepCrossover, type SweepOptions, type SweepVariantSpec } from './design/sweep.js';
+export { growthLimit, GROWTH_LIMIT_METHOD } from './design/growth-limit.js';
+export { sensitivityRecord, type SensitivityRecord } from './report/sensitivity-record.js';
+export { sweepRecord, sweepCsv, type SweepRecord } from './report/sweep-record.js';

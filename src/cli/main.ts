@@ -49,6 +49,29 @@ program
 
 // -- more commands are declared here (one block per command) --
 program
+  .command('sensitivity')
+  .description('exact effect of every single change: each candidate added, each compatibility removed, flagged and explained')
+  .argument('<file>', 'scenario file (JSON)')
+  .option('--all-pairs', 'try every absent pair (self-pairs included), not only the candidates')
+  .option('--json', 'machine-readable output')
+  .addOption(new Option('--max-sets <n>', 'memory guard: refuse above this many independent sets (about 200 bytes each)').argParser(Number))
+  .action((file: string, opts: Record<string, unknown>) =>
+    action(async () => (await import('./commands/sensitivity.js')).sensitivityCommand)({ ...opts, file }));
+
+program
+  .command('sweep')
+  .description('heavy-traffic view: grow some classes to the stability limit, exact backlog of today and of variants, crossovers')
+  .argument('<file>', 'scenario file (JSON)')
+  .requiredOption('--grow <classes>', 'comma-separated class ids whose rates grow together')
+  .option('--with <pairs>', 'a variant adding compatibilities, e.g. a-b or a-b,c-d (repeatable: one variant each)', (v: string, prev: string[] = []) => [...prev, v])
+  .option('--without <pairs>', 'a variant removing compatibilities (repeatable: one variant each)', (v: string, prev: string[] = []) => [...prev, v])
+  .addOption(new Option('--steps <n>', 'steps after today (default 10)').argParser(Number))
+  .option('--json', 'machine-readable output (the curves)')
+  .option('--csv', 'one CSV row per step and design')
+  .action((file: string, opts: Record<string, unknown>) =>
+    action(async () => (await import('./commands/sweep.js')).sweepCommand)({ ...opts, file }));
+
+program
   .command('recommend')
   .description('budgeted design: the cost/backlog Pareto set of stable designs, with baselines')
   .argument('<file>', 'scenario file (JSON)')

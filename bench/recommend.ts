@@ -1,0 +1,114 @@
+/**
+ * Benchmark of the recommender (figures printed, never asserted). Run alone:
+ *   npx tsx bench/recommend.ts            all cases (a few minutes on a 2-core machine)
+ *   npx tsx bench/recommend.ts <case>     one case
+ *
+ * Cases (invented, seeded): a ring of classes as today's design, random candidate pairs (self-pairs
+ * included) with integer costs 2–25, rates uniform in [0.5, 2], budget a fifth to a quarter of the
+ * candidates' total cost. Time and exact evaluations to the front; evaluations as a share of the
+ * 2^k designs; on a 14-candidate case, the ratio to an actual exhaustive enumeration. When the build
+ * exists (npm run build), the largest case is also run from dist with --jobs 2 on worker threads.
+ */
+import { existsSync } from 'node:fs';
+import { join } from 'node:path';
+import { pathToFileURL } from 'node:url';
+import type { DesignProblem, Toggle } from '../src/design/problem.js';
+import { recommend, type Recommendation, type RecommendOptions } from '../src/design/recommend.js';
+import { seededRandom } from '../src/random.js';
+
+function benchProblem(n: number, candidates: number, seed: number, budgetShare: number): DesignProblem {
+  const random = seededRandom(seed);
+  const int = (lo: number, hi: number): number => lo + Math.floor(random() * (hi - lo + 1));
+  const fixed: Array<[number, number]> = [];
+  const used = new Set<number>();
+  const id = (a: number, b: number): number => Math.min(a, b) * n + Math.max(a, b);
+  for (let i = 0; i < n; i++) {
+    const j = (i + 1) % n;
+    fixed.push([Math.min(i, j), Math.max(i, j)]);
+    used.add(id(i, j));
+  }
+  const toggles: Toggle[] = [];
+  while (toggles.length < candidates) {
+    const a = int(0, n - 1);
+    const b = random() < 0.1 ? a : int(0, n - 1);
+    if (used.has(id(a, b))) continue;
+    used.add(id(a, b));
+    toggles.push({ a: Math.min(a, b), b: Math.max(a, b), kind: 'candidate', price: int(2, 25), source: toggles.length });
+  }
+  const fixedDegree = new Int32Array(n);
+  for (const [a, b] of fixed) {
+    fixedDegree[a]++;
+    if (a !== b) fixedDegree[b]++;
+  }
+  const total = toggles.reduce((s, t) => s + t.price, 0);
+  return {
+    n,
+    ids: Array.from({ length: n }, (_, k) => `z${k}`),
+    rates: Float64Array.from({ length: n }, () => 0.5 + 1.5 * random()),
+    timeUnit: 'minute',
+    fixed,
+    toggles,
+    forcedOut: [],
+    costOffset: 0,
+    budget: Math.round(total * budgetShare),
+    maxDegree: new Float64Array(n).fill(Infinity),
+    fixedDegree,
+    waitTarget: new Float64Array(n).fill(Infinity),
+    weight: new Float64Array(n).fill(1),
+    today: new Uint8Array(toggles.length),
+  };
+}
+
+const CASES: Record<string, () => DesignProblem> = {
+  'countable-9x14': () => benchProblem(9, 14, 7, 0.3),
+  '12-classes-30-candidates': () => benchProblem(12, 30, 2026, 0.25),
+  '20-classes-40-candidates': () => benchProblem(20, 40, 2026, 0.2),
+};
+
+type Recommend = (p: DesignProblem, o: RecommendOptions) => Promise<Recommendation>;
+
+async function timed(run: Recommend, p: DesignProblem, o: RecommendOptions): Promise<{ rec: Recommendation; seconds: number; milpSeconds: number }> {
+  const t0 = performance.now();
+  let milpEnd = NaN;
+  const rec = await run(p, {
+    ...o,
+    onProgress: (x) => {
+      if (x.phase !== 'milp' && Number.isNaN(milpEnd)) milpEnd = performance.now();
+    },
+  });
+  return { rec, seconds: (performance.now() - t0) / 1000, milpSeconds: (milpEnd - t0) / 1000 };
+}
+
+const frontText = (r: Recommendation): string => r.pareto.map((d) => `${d.cost}:${d.objective.toPrecision(10)}`).join(' ');
+
+async function runCase(name: string): Promise<void> {
+  const p = CASES[name]!();
+  const k = p.toggles.length;
+  const { rec, seconds, milpSeconds } = await timed(recommend, p, { workerUrl: null });
+  const share = rec.evaluations / rec.designSpace;
+  console.log(
+    `${name.padEnd(26)} classes ${String(p.n).padStart(2)}  candidates ${k}  budget ${p.budget}  front ${String(rec.pareto.length).padStart(3)}  ` +
+      `evaluations ${String(rec.evaluations).padStart(6)}  share of 2^${k} ${share.toExponential(2)}  ` +
+      `time ${seconds.toFixed(1)} s (MILP stage ${milpSeconds.toFixed(1)} s, in-thread)`,
+  );
+  if (name === 'countable-9x14') {
+    const ex = await timed(recommend, p, { workerUrl: null, exhaustive: true });
+    console.log(
+      `${''.padEnd(26)} --exhaustive: ${ex.rec.evaluations} evaluations in ${ex.seconds.toFixed(1)} s; search/exhaustive = ` +
+        `${(rec.evaluations / ex.rec.evaluations).toFixed(3)}; same front: ${frontText(ex.rec) === frontText(rec) ? 'yes' : 'NO'}`,
+    );
+  }
+  const dist = join(import.meta.dirname, '..', 'dist', 'design', 'recommend.js');
+  if (name === '20-classes-40-candidates' && existsSync(dist)) {
+    const built = (await import(pathToFileURL(dist).href)) as { recommend: Recommend };
+    const par = await timed(built.recommend, p, { jobs: 2 });
+    console.log(
+      `${''.padEnd(26)} from dist, --jobs 2 (${par.rec.scoring}): ${par.seconds.toFixed(1)} s; same front and count: ` +
+        `${frontText(par.rec) === frontText(rec) && par.rec.evaluations === rec.evaluations ? 'yes' : 'NO'}`,
+    );
+  }
+}
+
+const arg = process.argv[2];
+console.log('recommend: time and exact evaluations to the Pareto front (objective: total backlog)');
+for (const name of arg ? [arg] : Object.keys(CASES)) await runCase(name);

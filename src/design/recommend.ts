@@ -1,0 +1,302 @@
+/**
+ * The design recommender: the cost/objective Pareto set of the designs within a budget.
+ *
+ * 1. MILP stage (milp.ts, HiGHS): the cheapest stable design, and for a ladder of budget levels the
+ *    design that maximises the smallest edge flow; each answer verified with checkStability.
+ * 2. Pareto local search (local-search.ts) from today's design, the MILP designs and the baselines,
+ *    or, with `exhaustive`, every design (exhaustive.ts). Scoring runs on worker threads (pool.ts).
+ * 3. The Pareto archive (pareto.ts) of admissible designs (stable, within budget and limits, wait
+ *    targets met, no harmful paid compatibility), sorted by cost; baselines (baselines.ts) beside it,
+ *    with their distance to the front at their cost.
+ *
+ * Indices only: ids are attached in src/report/recommendation.ts.
+ */
+import { InfeasibleDesignError, UsageError } from '../errors.js';
+import { compileGraph } from '../model/compile.js';
+import { evaluateExact } from '../exact/evaluate.js';
+import { checkStability } from '../stability/check.js';
+import { seededRandom } from '../random.js';
+import { baselines as buildBaselines, type BaselineName } from './baselines.js';
+import { DesignEvaluator, scoreSpecOf, type DesignRecord } from './evaluator.js';
+import { exhaustiveSearch, MAX_EXHAUSTIVE_TOGGLES } from './exhaustive.js';
+import { paretoLocalSearch } from './local-search.js';
+import { budgetLadder, cheapestStableDesign, maxMinFlowDesign, type MilpDesign } from './milp.js';
+import { objectiveValue, type ObjectiveName } from './objective.js';
+import { frontValueAt } from './pareto.js';
+import { penaltyNeighbours, penaltyVerdict } from './penalty.js';
+import { createScorer, workerScriptUrl } from './pool.js';
+import {
+  degreesAllowed,
+  designChanges,
+  designCost,
+  designKey,
+  designPairs,
+  withinBudget,
+  type DesignProblem,
+} from './problem.js';
+
+export interface RecommendProgress {
+  readonly phase: 'milp' | 'search' | 'exhaustive' | 'details';
+  /** Designs scored so far. */
+  readonly scored: number;
+  /** Exact evaluations so far. */
+  readonly evaluations: number;
+}
+
+export interface RecommendOptions {
+  readonly objective?: ObjectiveName;
+  /** Parallel scoring batches (worker threads); default 1 (in the calling thread). */
+  readonly jobs?: number;
+  /** Enumerate every design instead of searching (at most 20 toggles). */
+  readonly exhaustive?: boolean;
+  /** Seed of the search's random kicks (default 1). */
+  readonly seed?: number;
+  /** Memory guard of the exact evaluator (independent sets per design). */
+  readonly maxSets?: number;
+  /** Budget levels of the MILP ladder (default 5). */
+  readonly ladderLevels?: number;
+  /** Wall-clock limit of one MILP solve, seconds (default 30). */
+  readonly milpTimeLimitSeconds?: number;
+  /**
+   * Pareto layers the local search expands (default 2; 4 for max-wait, whose landscape is flatter:
+   * only the worst class counts).
+   */
+  readonly depth?: number;
+  /** Of those, the layers that also get swap moves (default 2). */
+  readonly swapLayers?: number;
+  /** Random kicks of the local search (default: the number of toggles). */
+  readonly kicks?: number;
+  readonly onProgress?: (p: RecommendProgress) => void;
+  /** Compiled scoring worker; null forces scoring in the calling thread. Default: next to pool.js. */
+  readonly workerUrl?: URL | null;
+}
+
+/** Exact figures of a design on the front or of a baseline. */
+export interface DesignDetails {
+  readonly design: Uint8Array;
+  readonly key: string;
+  readonly cost: number;
+  /** Toggle indices of added candidates and dropped removable compatibilities (forced removals not included). */
+  readonly added: number[];
+  readonly removed: number[];
+  readonly stable: boolean;
+  /** Objective value (NaN when unstable). */
+  readonly objective: number;
+  readonly backlogTotal: number;
+  /** Per class, when stable. */
+  readonly backlog: Float64Array | null;
+  readonly wait: Float64Array | null;
+  readonly maxWait: number;
+  /** Smallest flow on a present edge, max over flows (t* of the edge-flow LP, min over components). */
+  readonly minEdgeFlow: number;
+  /** Smallest λ(N(I)) − λ(I) over independent sets I (the bottleneck), when stable. */
+  readonly bottleneckSlack: number;
+  readonly independentSets: number;
+}
+
+export interface BaselineResult extends DesignDetails {
+  readonly name: BaselineName;
+  readonly note: string;
+  readonly withinBudget: boolean;
+  /** Within maxCompatibilities. */
+  readonly withinLimits: boolean;
+  readonly meetsTargets: boolean;
+  /** Paid toggles whose removal would lower the objective. */
+  readonly harmful: number[];
+  /** Stable, within budget and limits, wait targets met: comparable with the front. */
+  readonly feasible: boolean;
+  /** Best front objective at this baseline's cost (Infinity when the front has nothing that cheap). */
+  readonly frontValue: number;
+  /** objective − frontValue (NaN when not comparable). */
+  readonly gap: number;
+}
+
+export interface Recommendation {
+  readonly objective: ObjectiveName;
+  readonly budget: number;
+  readonly pareto: DesignDetails[];
+  readonly baselines: BaselineResult[];
+  /** Exact evaluations of the search (cache misses reaching the exact evaluator). */
+  readonly evaluations: number;
+  /** Designs scored (evaluations plus designs refused as unstable before evaluating). */
+  readonly scored: number;
+  readonly toggles: number;
+  /** 2^toggles: the size of the design space. */
+  readonly designSpace: number;
+  readonly exhaustive: boolean;
+  readonly milp: { readonly cheapest: MilpDesign; readonly ladder: ReadonlyArray<{ readonly budget: number; readonly design: MilpDesign | undefined }> };
+  /** Designs refused by the flexibility penalty. */
+  readonly harmfulRefused: number;
+  /** How scoring ran (not part of any output: it must not change results). */
+  readonly scoring: 'workers' | 'in-thread';
+}
+
+/** "add a–b, c–d; drop e–f" for messages. */
+export function describeChanges(problem: DesignProblem, design: Uint8Array): string {
+  const { added, removed } = designChanges(problem, design);
+  const name = (j: number): string => {
+    const t = problem.toggles[j]!;
+    return `${problem.ids[t.a]}–${problem.ids[t.b]}`;
+  };
+  const parts: string[] = [];
+  if (added.length > 0) parts.push(`add ${added.map(name).join(', ')}`);
+  if (removed.length > 0) parts.push(`drop ${removed.map(name).join(', ')}`);
+  return parts.length > 0 ? parts.join('; ') : "no change from today's design";
+}
+
+/** Exact details of one design (main thread). */
+export function designDetails(problem: DesignProblem, objective: ObjectiveName, design: Uint8Array, maxSets?: number): DesignDetails {
+  const model = compileGraph(problem.ids, problem.rates, designPairs(problem, design));
+  const { added, removed } = designChanges(problem, design);
+  const base = { design, key: designKey(design), cost: designCost(problem, design), added, removed };
+  const report = checkStability(model);
+  if (!report.stable) {
+    return { ...base, stable: false, objective: NaN, backlogTotal: NaN, backlog: null, wait: null, maxWait: NaN, minEdgeFlow: NaN, bottleneckSlack: NaN, independentSets: 0 };
+  }
+  const r = evaluateExact(model, maxSets === undefined ? {} : { maxSets });
+  let minEdgeFlow = Infinity;
+  for (const c of report.components) minEdgeFlow = Math.min(minEdgeFlow, c.minEdgeFlow ?? Infinity);
+  let maxWait = 0;
+  for (let k = 0; k < problem.n; k++) maxWait = Math.max(maxWait, r.wait[k]!);
+  return {
+    ...base,
+    stable: true,
+    objective: objectiveValue(objective, r.backlogTotal, r.backlog, problem.rates, problem.weight),
+    backlogTotal: r.backlogTotal,
+    backlog: r.backlog,
+    wait: r.wait,
+    maxWait,
+    minEdgeFlow,
+    bottleneckSlack: report.bottleneck?.slack ?? NaN,
+    independentSets: r.independentSets,
+  };
+}
+
+/**
+ * Today's design as a MILP-like answer when it is stable and within maxCompatibilities (the MILP
+ * only sees designs whose smallest edge flow clears its floor; today's design may be stable with a
+ * thinner margin).
+ */
+function todayIfStable(problem: DesignProblem): MilpDesign | undefined {
+  const design = Uint8Array.from(problem.today);
+  if (!degreesAllowed(problem, design)) return undefined;
+  const report = checkStability(compileGraph(problem.ids, problem.rates, designPairs(problem, design)));
+  if (!report.stable) return undefined;
+  let minFlow = Infinity;
+  for (const c of report.components) minFlow = Math.min(minFlow, c.minEdgeFlow ?? Infinity);
+  return { design, cost: designCost(problem, design), minFlow, verifiedMinFlow: minFlow, proven: false, solves: 0 };
+}
+
+function cheaperOf(a: MilpDesign | undefined, b: MilpDesign | undefined): MilpDesign | undefined {
+  if (!a || !b) return a ?? b;
+  return b.cost < a.cost ? b : a;
+}
+
+/** Cost of the design with every candidate added and every removable compatibility kept. */
+function fullCost(problem: DesignProblem): number {
+  return designCost(problem, Uint8Array.from(problem.toggles, () => 1));
+}
+
+export async function recommend(problem: DesignProblem, options: RecommendOptions = {}): Promise<Recommendation> {
+  const objective = options.objective ?? 'total';
+  if (options.exhaustive && problem.toggles.length > MAX_EXHAUSTIVE_TOGGLES) {
+    throw new UsageError(
+      `--exhaustive enumerates 2^${problem.toggles.length} designs; it is limited to ${MAX_EXHAUSTIVE_TOGGLES} removable compatibilities and candidates together`,
+    );
+  }
+  const spec = scoreSpecOf(problem, objective, options.maxSets);
+  const url = options.workerUrl === null ? undefined : (options.workerUrl ?? workerScriptUrl());
+  const scorer = createScorer(spec, options.jobs ?? 1, url);
+  let phase: RecommendProgress['phase'] = 'milp';
+  const evaluator = new DesignEvaluator(problem, objective, scorer, (p) => options.onProgress?.({ phase, ...p }));
+  const solve = { timeLimitSeconds: options.milpTimeLimitSeconds ?? 30 };
+  try {
+    options.onProgress?.({ phase, scored: 0, evaluations: 0 });
+    const cheapest = cheaperOf(await cheapestStableDesign(problem, solve), todayIfStable(problem));
+    if (!cheapest) {
+      throw new InfeasibleDesignError(
+        'no stable design exists, even with every candidate added' +
+          (problem.maxDegree.some(Number.isFinite) ? ' within maxCompatibilities' : '') +
+          (problem.forcedOut.length > 0 ? ' and the forbidden pairs dropped' : ''),
+      );
+    }
+    if (cheapest.cost > problem.budget + 1e-9) {
+      throw new InfeasibleDesignError(
+        `no stable design within the budget of ${problem.budget}: the cheapest stable design costs ${cheapest.cost} (${describeChanges(problem, cheapest.design)})`,
+      );
+    }
+    const high = Math.min(problem.budget, fullCost(problem));
+    const levels = budgetLadder(cheapest.cost, Math.max(cheapest.cost, high), options.ladderLevels ?? 5);
+    const ladder: Array<{ budget: number; design: MilpDesign | undefined }> = [];
+    for (const b of levels) ladder.push({ budget: b, design: await maxMinFlowDesign(problem, b, solve) });
+    const base = buildBaselines(problem);
+    const seeds = [Uint8Array.from(problem.today), cheapest.design, ...ladder.flatMap((l) => (l.design ? [l.design.design] : [])), ...base.map((b) => b.design)];
+
+    let front: DesignRecord[];
+    let harmful: ReadonlyMap<string, number[]>;
+    if (options.exhaustive) {
+      phase = 'exhaustive';
+      ({ front, harmful } = await exhaustiveSearch(evaluator));
+    } else {
+      phase = 'search';
+      ({ front, harmful } = await paretoLocalSearch(evaluator, seeds, {
+        random: seededRandom(options.seed ?? 1),
+        depth: options.depth ?? (objective === 'max-wait' ? 4 : 2),
+        ...(options.kicks === undefined ? {} : { kicks: options.kicks }),
+        ...(options.swapLayers === undefined ? {} : { swapLayers: options.swapLayers }),
+      }));
+    }
+    const evaluations = evaluator.evaluations;
+    const scored = evaluator.scored;
+    if (front.length === 0) {
+      throw new InfeasibleDesignError(
+        `no design within the budget of ${problem.budget} meets every waitTarget (and passes the flexibility penalty); ` +
+          `the cheapest stable design costs ${cheapest.cost} (${describeChanges(problem, cheapest.design)})`,
+      );
+    }
+
+    phase = 'details';
+    const pareto = front.map((r) => designDetails(problem, objective, r.design, options.maxSets));
+    // Baselines: scored (with the neighbours their penalty needs) outside the search's count.
+    const baseRecords = await evaluator.evaluate(base.map((b) => b.design));
+    await evaluator.evaluate(base.flatMap((b) => penaltyNeighbours(problem, b.design)));
+    const results: BaselineResult[] = base.map((b, i) => {
+      const rec = baseRecords[i]!;
+      const details = designDetails(problem, objective, b.design, options.maxSets);
+      const verdict = rec.stable ? penaltyVerdict(problem, b.design, rec.objective, (key) => evaluator.get(key)) : { known: true, harmful: [] };
+      const inBudget = withinBudget(problem, b.design);
+      const inLimits = degreesAllowed(problem, b.design);
+      const feasible = details.stable && inBudget && inLimits && rec.meetsTargets;
+      const frontValue = frontValueAt(pareto, details.cost);
+      return {
+        ...details,
+        name: b.name,
+        note: b.note,
+        withinBudget: inBudget,
+        withinLimits: inLimits,
+        meetsTargets: rec.meetsTargets,
+        harmful: verdict.harmful,
+        feasible,
+        frontValue,
+        gap: feasible && Number.isFinite(frontValue) ? details.objective - frontValue : NaN,
+      };
+    });
+    return {
+      objective,
+      budget: problem.budget,
+      pareto,
+      baselines: results,
+      evaluations,
+      scored,
+      toggles: problem.toggles.length,
+      designSpace: 2 ** problem.toggles.length,
+      exhaustive: Boolean(options.exhaustive),
+      milp: { cheapest, ladder },
+      harmfulRefused: harmful.size,
+      scoring: scorer.mode,
+    };
+  } finally {
+    await scorer.close();
+  }
+}
+

@@ -1,0 +1,63 @@
+/**
+ * Scoring one design: is it stable, and what are its exact FCFM metrics? The same function runs in
+ * the main thread and in the scoring workers (score-worker.ts), so that both give identical numbers.
+ *
+ * Instability is detected without any LP: a class with no compatibility or a bipartite component is
+ * unstable at once (see "Stability of the stochastic matching model", J. Appl. Probab. 2016), and
+ * otherwise the exact recursion itself refuses every independent set A with λ(N(A)) <= λ(A ∖ S)
+ * (UnstableDesignError), which is the stability condition.
+ */
+import { UnstableDesignError } from '../errors.js';
+import { compileGraph } from '../model/compile.js';
+import { bipartition, components } from '../model/components.js';
+import { evaluateBacklog, evaluateExact } from '../exact/evaluate.js';
+
+/** Everything a scorer needs, as plain data (it is sent to worker threads). */
+export interface ScoreSpec {
+  readonly ids: readonly string[];
+  readonly rates: readonly number[];
+  /** Pairs present in every design. */
+  readonly fixed: ReadonlyArray<readonly [number, number]>;
+  /** The pair of each toggle. */
+  readonly toggles: ReadonlyArray<readonly [number, number]>;
+  /** Compute per-class backlog (full evaluation) instead of the total only. */
+  readonly perClass: boolean;
+  readonly maxSets?: number;
+}
+
+export interface Score {
+  readonly stable: boolean;
+  /** Mean total backlog (NaN when unstable). */
+  readonly backlogTotal: number;
+  /** Per-class mean backlog when the spec asks for it (null otherwise or when unstable). */
+  readonly backlog: Float64Array | null;
+  /** Independent sets used by the exact recursion (0 when refused before it ran). */
+  readonly independentSets: number;
+  /** True when the exact evaluator ran (it counts as one evaluation). */
+  readonly evaluated: boolean;
+}
+
+const UNSTABLE_UNEVALUATED: Score = { stable: false, backlogTotal: NaN, backlog: null, independentSets: 0, evaluated: false };
+
+export function scoreDesign(spec: ScoreSpec, design: ArrayLike<number>): Score {
+  const pairs: Array<readonly [number, number]> = [...spec.fixed];
+  for (let j = 0; j < spec.toggles.length; j++) if (design[j]) pairs.push(spec.toggles[j]!);
+  const model = compileGraph(spec.ids, spec.rates, pairs);
+  for (let k = 0; k < model.n; k++) {
+    if (model.adjStart[k + 1] === model.adjStart[k] && !model.selfLoop[k]) return UNSTABLE_UNEVALUATED;
+  }
+  const comps = components(model);
+  for (const members of comps.members) if (bipartition(model, members)) return UNSTABLE_UNEVALUATED;
+  const options = spec.maxSets === undefined ? {} : { maxSets: spec.maxSets };
+  try {
+    if (spec.perClass) {
+      const r = evaluateExact(model, options);
+      return { stable: true, backlogTotal: r.backlogTotal, backlog: r.backlog, independentSets: r.independentSets, evaluated: true };
+    }
+    const r = evaluateBacklog(model, options);
+    return { stable: true, backlogTotal: r.backlogTotal, backlog: null, independentSets: r.independentSets, evaluated: true };
+  } catch (e) {
+    if (e instanceof UnstableDesignError) return { ...UNSTABLE_UNEVALUATED, evaluated: true };
+    throw e;
+  }
+}

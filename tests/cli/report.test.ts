@@ -1,0 +1,62 @@
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { parseHTML } from 'linkedom';
+import { describe, expect, it } from 'vitest';
+import { reportCommand } from '../../src/cli/commands/report.js';
+import { runWithExitCode } from '../../src/cli/exit.js';
+import { memoryIO } from '../../src/cli/io.js';
+
+// `edgewise report FILE -o report.html`. Reference values derived by hand (tests/cli/compare.test.ts
+// has the steps): K4 minus the edge a–b with rates 0.2, 0.2, 0.4, 0.2 has mean backlog 7/3, and
+// adding a–b gives K4 with 11/6.
+
+const dir = mkdtempSync(join(tmpdir(), 'edgewise-report-'));
+writeFileSync(
+  join(dir, 'pit.json'),
+  JSON.stringify({
+    name: 'pit crews & "friends"',
+    timeUnit: 'minute',
+    costUnit: 'credits',
+    classes: ['a', 'b', 'c', 'd'].map((id, k) => ({ id, rate: [0.2, 0.2, 0.4, 0.2][k] })),
+    compatibilities: [['a', 'c'], ['a', 'd'], ['b', 'c'], ['b', 'd'], ['c', 'd']],
+    candidates: [{ pair: ['a', 'b'], cost: 5 }],
+    budget: 10,
+  }),
+);
+async function run(opts: Parameters<typeof reportCommand>[0]) {
+  const io = memoryIO(dir);
+  const code = await runWithExitCode(io, () => reportCommand(opts, io));
+  return { code, out: io.stdout(), err: io.stderr() };
+}
+
+describe('report command', () => {
+  it('writes one HTML file and says so; the verdicts quote 7/3 → 11/6', async () => {
+    const r = await run({ file: 'pit.json', output: 'out.html' });
+    expect(r.code).toBe(0);
+    expect(r.out).toMatch(/^wrote out\.html \(\d+ KB\): /);
+    const page = readFileSync(join(dir, 'out.html'), 'utf8');
+    const { document } = parseHTML(page);
+    expect(document.querySelector('h1')!.textContent).toBe('pit crews & "friends"');
+    const verdicts = [...document.querySelectorAll('.verdicts li')].map((li) => li.textContent!);
+    expect(verdicts[1]).toContain('waiting goes from 2.33 to 1.83 items');
+  });
+
+  it('--budget 0 overrides the scenario: nothing is affordable, keep today', async () => {
+    const r = await run({ file: 'pit.json', output: 'zero.html', budget: 0 });
+    expect(r.code).toBe(0);
+    const { document } = parseHTML(readFileSync(join(dir, 'zero.html'), 'utf8'));
+    const text = document.querySelector('.verdicts')!.textContent!;
+    expect(text).toContain("no change lowers waiting: keep today's design");
+  });
+
+  it('refuses bad options and unwritable targets (exit 2), and missing files', async () => {
+    expect((await run({ file: 'pit.json', output: 'x.html', budget: -1 })).code).toBe(2);
+    expect((await run({ file: 'pit.json', output: 'x.html', jobs: 0 })).code).toBe(2);
+    expect((await run({ file: 'pit.json', output: '' })).code).toBe(2);
+    const r = await run({ file: 'pit.json', output: join('no-such-dir', 'x.html') });
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/cannot write/);
+    expect((await run({ file: 'missing.json', output: 'x.html' })).code).toBe(2);
+  });
+});

@@ -1,0 +1,111 @@
+import { mkdtempSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { sensitivityCommand } from '../../src/cli/commands/sensitivity.js';
+import { runWithExitCode } from '../../src/cli/exit.js';
+import { memoryIO } from '../../src/cli/io.js';
+import { k4, k4MinusEdge, K4_IDS, K4_MINUS_AB_PAIRS } from '../helpers/k4-minus-edge.js';
+
+const dir = mkdtempSync(join(tmpdir(), 'edgewise-sensitivity-'));
+const repo = new URL('../../', import.meta.url).pathname;
+
+function scenarioFile(name: string, doc: unknown): string {
+  const p = join(dir, name);
+  writeFileSync(p, JSON.stringify(doc));
+  return p;
+}
+
+async function run(opts: Parameters<typeof sensitivityCommand>[0], cwd = dir) {
+  const io = memoryIO(cwd);
+  const code = await runWithExitCode(io, () => sensitivityCommand(opts, io));
+  return { code, out: io.stdout(), err: io.stderr() };
+}
+
+// The hand-derived family (tests/helpers/k4-minus-edge.ts), dressed as an invented shift-swap board:
+// four shift types, every pair can swap except the two night types a and b.
+const family = (rates: readonly number[]) => ({
+  name: 'shift swaps',
+  timeUnit: 'day',
+  classes: K4_IDS.map((id, k) => ({ id, rate: rates[k] })),
+  compatibilities: K4_MINUS_AB_PAIRS.map(([x, y]) => ({ pair: [K4_IDS[x], K4_IDS[y]], removable: true, saving: 2 })),
+  candidates: [{ pair: ['a', 'b'], cost: 5 }],
+});
+
+describe('edgewise sensitivity', () => {
+  it('--json has the shape of the issue and the hand-derived figures (7/3 → 131/56, harmful, predicted)', async () => {
+    const rates = [0.1, 0.1, 0.4, 0.4];
+    const { code, out } = await run({ file: scenarioFile('k4a.json', family(rates)), json: true });
+    expect(code).toBe(0);
+    const doc = JSON.parse(out);
+    expect(doc.base.backlog).toBeCloseTo(7 / 3, 10);
+    expect(doc.additions).toHaveLength(1);
+    const add = doc.additions[0];
+    expect(add.pair).toEqual(['a', 'b']);
+    expect(add.cost).toBe(5);
+    expect(add.stable).toBe(true);
+    expect(add.backlog).toBeCloseTo(131 / 56, 10);
+    expect(add.delta).toBeCloseTo(131 / 56 - 7 / 3, 10);
+    expect(add.harmful).toBe(true);
+    expect(add.predicted).toBe(true);
+    expect(typeof add.explanation).toBe('string');
+    // waitDelta: per class, K4 wait minus K4-minus-edge wait (closed forms, Little's law)
+    const before = k4MinusEdge(rates).backlog;
+    const after = k4(rates).backlog;
+    for (let k = 0; k < 4; k++) expect(add.waitDelta[K4_IDS[k]!]).toBeCloseTo((after[k]! - before[k]!) / rates[k]!, 9);
+    // every removal here breaks stability (e.g. without c–d, {c, d} demands 0.8 against a + b = 0.2)
+    expect(doc.removals).toHaveLength(5);
+    for (const rem of doc.removals) {
+      expect(rem.saving).toBe(2);
+      expect(rem.stable).toBe(false);
+      expect(rem.backlog).toBeNull();
+      expect(rem.beneficial).toBe(false);
+      expect(rem.certificate.demand).toBeGreaterThanOrEqual(rem.certificate.capacity - 1e-12);
+      expect(rem.certificate.message).toMatch(/unstable/);
+    }
+  });
+
+  it('the helpful case: 7/3 → 11/6, not harmful, not predicted; tables for people', async () => {
+    const file = scenarioFile('k4b.json', family([0.2, 0.2, 0.4, 0.2]));
+    const json = JSON.parse((await run({ file, json: true })).out);
+    expect(json.additions[0].backlog).toBeCloseTo(11 / 6, 10);
+    expect(json.additions[0].harmful).toBe(false);
+    expect(json.additions[0].predicted).toBe(false);
+    const { code, out } = await run({ file });
+    expect(code).toBe(0);
+    expect(out).toMatch(/Additions/);
+    expect(out).toMatch(/a ↔ b/);
+    expect(out).toMatch(/helps/);
+    expect(out).toMatch(/UNSTABLE/);
+  });
+
+  it('the shipped harmful-candidate scenario: healer–tank flagged HARMFUL with the harm predicted', async () => {
+    const { code, out } = await run({ file: 'scenarios/harmful-candidate.json' }, repo);
+    expect(code).toBe(0);
+    const line = out.split('\n').find((l) => l.includes('healer ↔ tank'))!;
+    expect(line).toMatch(/HARMFUL/);
+    expect(line).toMatch(/harm predicted/);
+    const doc = JSON.parse((await run({ file: 'scenarios/harmful-candidate.json', json: true }, repo)).out);
+    expect(doc.base.bottlenecks[0].set.sort()).toEqual(['archer', 'mage']);
+    expect(doc.additions[0].pair).toEqual(['archer', 'mage']); // the best backlog saving per unit of cost
+  });
+
+  it('--all-pairs adds every absent pair, self-pairs included, with null cost when not a candidate', async () => {
+    const doc = JSON.parse((await run({ file: scenarioFile('k4c.json', family([0.2, 0.2, 0.4, 0.2])), json: true, allPairs: true })).out);
+    // 4 classes: 6 pairs + 4 self-pairs = 10, minus the 5 present compatibilities = 5 absent
+    expect(doc.additions).toHaveLength(5);
+    const selfPairs = doc.additions.filter((e: { pair: string[] }) => e.pair[0] === e.pair[1]);
+    expect(selfPairs).toHaveLength(4);
+    expect(selfPairs.every((e: { cost: number | null; candidate: boolean }) => e.cost === null && e.candidate === false)).toBe(true);
+  });
+
+  it('exit codes: unstable base 3, too many sets 4, bad option or missing file 2', async () => {
+    const unstable = await run({ file: 'scenarios/unstable-example.json' }, repo);
+    expect(unstable.code).toBe(3);
+    expect(unstable.err).toMatch(/unstable/);
+    const tooMany = await run({ file: scenarioFile('k4d.json', family([0.2, 0.2, 0.4, 0.2])), maxSets: 3 });
+    expect(tooMany.code).toBe(4);
+    expect((await run({ file: scenarioFile('k4e.json', family([0.2, 0.2, 0.4, 0.2])), maxSets: 0 })).code).toBe(2);
+    expect((await run({ file: join(dir, 'nope.json') })).code).toBe(2);
+  });
+});

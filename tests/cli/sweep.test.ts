@@ -1,0 +1,111 @@
+import { mkdtempSync, readFileSync, writeFileSync } from 'node:fs';
+import { tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { describe, expect, it } from 'vitest';
+import { sweepCommand } from '../../src/cli/commands/sweep.js';
+import { runWithExitCode } from '../../src/cli/exit.js';
+import { memoryIO } from '../../src/cli/io.js';
+import { k4, k4MinusEdge, K4_IDS, K4_MINUS_AB_PAIRS } from '../helpers/k4-minus-edge.js';
+
+const dir = mkdtempSync(join(tmpdir(), 'edgewise-sweep-'));
+const repo = new URL('../../', import.meta.url).pathname;
+
+function scenarioFile(name: string, doc: unknown): string {
+  const p = join(dir, name);
+  writeFileSync(p, JSON.stringify(doc));
+  return p;
+}
+
+async function run(opts: Parameters<typeof sweepCommand>[0], cwd = dir) {
+  const io = memoryIO(cwd);
+  const code = await runWithExitCode(io, () => sweepCommand(opts, io));
+  return { code, out: io.stdout(), err: io.stderr() };
+}
+
+// The hand-derived K4-minus-{a, b} family (tests/helpers/k4-minus-edge.ts) as an invented game
+// matchmaking queue: four roles, every pair can be matched except the two rookie roles a and b.
+const rates = [0.2, 0.2, 0.4, 0.2];
+const k4file = scenarioFile('k4.json', {
+  name: 'rookie matchmaking',
+  timeUnit: 'minute',
+  classes: K4_IDS.map((id, k) => ({ id, rate: rates[k] })),
+  compatibilities: K4_MINUS_AB_PAIRS.map(([x, y]) => [K4_IDS[x], K4_IDS[y]]),
+  candidates: [{ pair: ['a', 'b'], cost: 5 }],
+});
+
+describe('edgewise sweep', () => {
+  it('--json: the limit, the curves (closed forms at every step) and the crossover where a–b starts to hurt', async () => {
+    const { code, out } = await run({ file: k4file, grow: 'c', with: ['a-b'], steps: 10, json: true });
+    expect(code).toBe(0);
+    const doc = JSON.parse(out);
+    expect(doc.grow).toEqual(['c']);
+    expect(doc.limit.factor).toBeCloseTo(1.5, 7); // by hand: {c} saturates at 0.4 s = 0.6
+    expect(doc.limit.method).toMatch(/LP/);
+    expect(doc.curves.map((c: { name: string }) => c.name)).toEqual(['base', 'with a-b']);
+    for (const [c, form] of [
+      [doc.curves[0], k4MinusEdge],
+      [doc.curves[1], k4],
+    ] as const) {
+      expect(c.points).toHaveLength(11);
+      for (const p of c.points) {
+        const want = form(rates.map((x, k) => (k === 2 ? x * p.factor : x))).total;
+        expect(Math.abs(p.backlog - want)).toBeLessThan(1e-9 * want);
+        expect(p.stable).toBe(true);
+      }
+    }
+    expect(doc.crossovers).toHaveLength(1);
+    const x = doc.crossovers[0];
+    expect(x.variant).toBe('with a-b');
+    expect(x.direction).toBe('starts-to-hurt');
+    expect(x.factor).toBeGreaterThan(x.between[0]);
+    expect(x.factor).toBeLessThan(x.between[1]);
+    expect(x.headroomUsed).toBeCloseTo((x.factor - 1) / 0.5, 9);
+    expect(typeof doc.crossoverMethod).toBe('string');
+  });
+
+  it('--csv: one row per step and design; the table for people names the crossover', async () => {
+    const csv = (await run({ file: k4file, grow: 'c', with: ['a-b'], steps: 4, csv: true })).out.trim().split('\n');
+    expect(csv[0]).toBe('step,factor,headroom_used,design,stable,backlog,slack,bottleneck');
+    expect(csv).toHaveLength(1 + 2 * 5);
+    const first = csv[1]!.split(',');
+    expect(first[3]).toBe('base');
+    expect(Number(first[5])).toBeCloseTo(7 / 3, 10);
+    const { code, out } = await run({ file: k4file, grow: 'c', with: ['a-b'], steps: 10 });
+    expect(code).toBe(0);
+    expect(out).toMatch(/with a-b: helps today; starts to hurt at ×1\.1/);
+  });
+
+  it('class ids with hyphens (the ride-pooling hub): pairs split at the one hyphen that names two classes', async () => {
+    const { code, out } = await run({ file: 'scenarios/ride-pooling-hub.json', grow: 'tech-park', with: ['airport-stadium'], without: ['old-town-market'], steps: 3, json: true }, repo);
+    expect(code).toBe(0);
+    const doc = JSON.parse(out);
+    expect(doc.curves.map((c: { name: string }) => c.name)).toEqual(['base', 'with airport-stadium', 'without old-town-market']);
+  });
+
+  it('usage errors exit 2', async () => {
+    const cases: Array<Parameters<typeof sweepCommand>[0]> = [
+      { file: k4file },
+      { file: k4file, grow: 'zz' },
+      { file: k4file, grow: 'c', with: ['c-d'] }, // already compatible
+      { file: k4file, grow: 'c', without: ['a-b'] }, // not compatible today
+      { file: k4file, grow: 'c', with: ['a+b'] },
+      { file: k4file, grow: 'c', steps: 0 },
+      { file: k4file, grow: 'c', json: true, csv: true },
+    ];
+    for (const opts of cases) expect((await run(opts)).code, JSON.stringify(opts)).toBe(2);
+    const ambiguous = scenarioFile('amb.json', {
+      name: 'ambiguous ids',
+      classes: ['x', 'x-y', 'y', 'y-z', 'z'].map((id) => ({ id, rate: 1 })),
+      compatibilities: [['x', 'y'], ['y', 'z'], ['x', 'z'], ['x-y', 'x'], ['y-z', 'y'], ['x-y', 'y-z']],
+    });
+    const r = await run({ file: ambiguous, grow: 'x', with: ['x-y-z'] });
+    expect(r.code).toBe(2);
+    expect(r.err).toMatch(/ambiguous/);
+  });
+
+  it('an unstable design exits 3', async () => {
+    const first = JSON.parse(readFileSync(join(repo, 'scenarios/unstable-example.json'), 'utf8')).classes[0].id as string;
+    const r = await run({ file: 'scenarios/unstable-example.json', grow: first }, repo);
+    expect(r.code).toBe(3);
+  });
+});
