@@ -1,8 +1,7 @@
-import { TooLargeError, UnstableDesignError, type InstabilityCertificate } from '../errors.js';
+import { UnstableDesignError } from '../errors.js';
 import type { CompiledModel } from '../model/compile.js';
-import { components, subModel } from '../model/components.js';
-import { countIndependentSets } from './count.js';
-import { maskGraph, MAX_COMPONENT_CLASSES, type MaskGraph } from './masks.js';
+import { prepareComponents } from './prepare.js';
+import { certificateOfSet, maskMembers } from './saturated.js';
 import type { ExactResult } from './result.js';
 import { buildTrie } from './trie.js';
 import { prefixSums, SaturatedSet, tailPass } from './component.js';
@@ -15,8 +14,8 @@ export interface ExactOptions {
 }
 
 /**
- * Default memory guard: about 40 bytes per independent set (mask, μ, Ψ, T and the hash table),
- * so 25 million sets stay near 1 GiB.
+ * Default memory guard: about 40 bytes per independent set (trie node, μ, Ψ, T, and the masks
+ * while the trie is built), so 25 million sets stay near 1 GiB.
  */
 export const DEFAULT_MAX_SETS = 25_000_000;
 
@@ -31,31 +30,7 @@ export const DEFAULT_MAX_SETS = 25_000_000;
  */
 export function evaluateExact(model: CompiledModel, options: ExactOptions = {}): ExactResult {
   const maxSets = options.maxSets ?? DEFAULT_MAX_SETS;
-  const comps = components(model);
-  const parts: Array<{ members: Int32Array; sub: CompiledModel; edgeMap: Int32Array; g: MaskGraph; count: number }> = [];
-  let total = 0;
-  for (const members of comps.members) {
-    if (members.length > MAX_COMPONENT_CLASSES) {
-      throw new TooLargeError(
-        `a connected group of ${members.length} classes is beyond exact evaluation (at most ${MAX_COMPONENT_CLASSES} per group); use \`edgewise simulate\``,
-        Infinity,
-        maxSets,
-      );
-    }
-    const { sub, edgeMap } = subModel(model, members);
-    const g = maskGraph(sub);
-    const count = countIndependentSets(g, maxSets - total);
-    total += count;
-    if (total > maxSets) {
-      throw new TooLargeError(
-        `the design has more than ${maxSets.toLocaleString('en-US')} independent sets (the exact evaluation's memory guard); ` +
-          'raise --max-sets if memory allows (about 40 bytes each), or estimate with `edgewise simulate`',
-        total,
-        maxSets,
-      );
-    }
-    parts.push({ members, sub, edgeMap, g, count });
-  }
+  const { parts, total } = prepareComponents(model, maxSets);
 
   const n = model.n;
   const backlog = new Float64Array(n);
@@ -69,7 +44,7 @@ export function evaluateExact(model: CompiledModel, options: ExactOptions = {}):
     try {
       prefixSums(g, table, psi, tol);
     } catch (e) {
-      if (e instanceof SaturatedSet) throw new UnstableDesignError(certificateOf(sub, g, e.lo, e.hi), options.timeUnit);
+      if (e instanceof SaturatedSet) throw new UnstableDesignError(certificateOfSet(model, maskMembers(members, e.lo, e.hi)), options.timeUnit);
       throw e;
     }
     const tail = new Float64Array(count);
@@ -95,24 +70,6 @@ export function evaluateExact(model: CompiledModel, options: ExactOptions = {}):
   return { independentSets: total, emptyProbability: empty, backlogTotal, backlog, wait, immediateMatch, matchRates };
 }
 
-/** The saturated set A gives I = A ∖ S with λ(I) = r(A) >= μ(A) = λ(N(A)) >= λ(N(I)). */
-function certificateOf(sub: CompiledModel, g: MaskGraph, lo: number, hi: number): InstabilityCertificate {
-  const set: string[] = [];
-  const nb = new Set<number>();
-  let demand = 0;
-  for (let i = 0; i < g.n; i++) {
-    const inSet = i < 32 ? (lo >>> i) & 1 : (hi >>> (i - 32)) & 1;
-    if (!inSet || g.loop[i]) continue;
-    set.push(sub.ids[i]!);
-    demand += sub.rates[i]!;
-    for (let p = sub.adjStart[i]!; p < sub.adjStart[i + 1]!; p++) nb.add(sub.adj[p]!);
-  }
-  const neighbours = [...nb].sort((a, b) => a - b);
-  let capacity = 0;
-  for (const j of neighbours) capacity += sub.rates[j]!;
-  return { set, neighbours: neighbours.map((j) => sub.ids[j]!), demand, capacity, reason: 'overloaded' };
-}
-
 /** Total backlog only (no per-class figures): one forward pass, about a third of evaluateExact. */
 export interface BacklogOnly {
   readonly independentSets: number;
@@ -126,31 +83,18 @@ export interface BacklogOnly {
  */
 export function evaluateBacklog(model: CompiledModel, options: ExactOptions = {}): BacklogOnly {
   const maxSets = options.maxSets ?? DEFAULT_MAX_SETS;
-  const comps = components(model);
-  let total = 0;
+  const { parts, total } = prepareComponents(model, maxSets);
   let backlog = 0;
   let empty = 1;
   const tol = 1e-12 * model.totalRate;
-  const prepared: Array<{ sub: CompiledModel; g: MaskGraph; count: number }> = [];
-  for (const members of comps.members) {
-    if (members.length > MAX_COMPONENT_CLASSES) {
-      throw new TooLargeError(`a connected group of ${members.length} classes is beyond exact evaluation (at most ${MAX_COMPONENT_CLASSES} per group)`, Infinity, maxSets);
-    }
-    const { sub } = subModel(model, members);
-    const g = maskGraph(sub);
-    const count = countIndependentSets(g, maxSets - total);
-    total += count;
-    if (total > maxSets) throw new TooLargeError(`the design has more than ${maxSets} independent sets`, total, maxSets);
-    prepared.push({ sub, g, count });
-  }
-  for (const { sub, g, count } of prepared) {
+  for (const { members, g, count } of parts) {
     const trie = buildTrie(g, count);
     const psi = new Float64Array(count);
     const psi1 = new Float64Array(count);
     try {
       prefixSums(g, trie, psi, tol, psi1);
     } catch (e) {
-      if (e instanceof SaturatedSet) throw new UnstableDesignError(certificateOf(sub, g, e.lo, e.hi), options.timeUnit);
+      if (e instanceof SaturatedSet) throw new UnstableDesignError(certificateOfSet(model, maskMembers(members, e.lo, e.hi)), options.timeUnit);
       throw e;
     }
     let z = 0;

@@ -1,6 +1,7 @@
 import { TooLargeError, UnstableDesignError, type InstabilityCertificate } from '../errors.js';
 import { compileGraph, edgePairs, findEdge, type CompiledModel } from '../model/compile.js';
-import { components, subModel } from '../model/components.js';
+import { subModel } from '../model/components.js';
+import { prepareComponents, tooManySets } from './prepare.js';
 import { SaturatedSet } from './component.js';
 import { countIndependentSets } from './count.js';
 import { forwardSums, type ForwardSums } from './forward.js';
@@ -58,6 +59,8 @@ export interface SingleChangeOptions {
   readonly timeUnit?: string;
 }
 
+const GUARD = 'the memory guard of single-change evaluation, about 200 bytes per set';
+
 interface Part {
   readonly members: Int32Array;
   readonly sub: CompiledModel;
@@ -74,21 +77,12 @@ interface Part {
  */
 export function singleChangeEvaluator(model: CompiledModel, options: SingleChangeOptions = {}): SingleChangeEvaluator {
   const maxSets = options.maxSets ?? DEFAULT_CHANGE_MAX_SETS;
-  const comps = components(model);
   const tol = 1e-12 * model.totalRate;
   const parts: Part[] = [];
-  let total = 0;
-  for (const members of comps.members) {
-    if (members.length > MAX_COMPONENT_CLASSES) {
-      throw new TooLargeError(`a connected group of ${members.length} classes is beyond exact evaluation (at most ${MAX_COMPONENT_CLASSES} per group)`, Infinity, maxSets);
-    }
-    const { sub } = subModel(model, members);
-    const g = maskGraph(sub);
-    const count = countIndependentSets(g, maxSets - total);
-    total += count;
-    if (total > maxSets) throw tooLarge(total, maxSets);
+  const { parts: prepared, total, of: compOf } = prepareComponents(model, maxSets, GUARD);
+  for (const { members, sub, g, count } of prepared) {
     const index = setIndex(buildTrie(g, count));
-    if (!index) throw tooLarge(total, maxSets);
+    if (!index) throw tooManySets(total, maxSets, GUARD);
     let sums: ForwardSums;
     try {
       sums = forwardSums(g, index, tol);
@@ -113,8 +107,8 @@ export function singleChangeEvaluator(model: CompiledModel, options: SingleChang
     const hi = Math.max(a, b);
     if (!(lo >= 0 && hi < n)) throw new RangeError(`class index out of range: ${a}, ${b}`);
     const present = findEdge(model, lo, hi) >= 0;
-    const ca = comps.of[lo]!;
-    const cb = comps.of[hi]!;
+    const ca = compOf[lo]!;
+    const cb = compOf[hi]!;
     if (ca === cb) {
       const p = parts[ca]!;
       const li = localIndex(p.members, lo);
@@ -136,9 +130,9 @@ export function singleChangeEvaluator(model: CompiledModel, options: SingleChang
     const { sub } = subModel(changed, members);
     const g = maskGraph(sub);
     const count = countIndependentSets(g, maxSets);
-    if (count > maxSets) throw tooLarge(count, maxSets);
+    if (count > maxSets) throw tooManySets(count, maxSets, GUARD);
     const index = setIndex(buildTrie(g, count));
-    if (!index) throw tooLarge(count, maxSets);
+    if (!index) throw tooManySets(count, maxSets, GUARD);
     let sums: ForwardSums;
     try {
       sums = forwardSums(g, index, tol, false);
@@ -152,15 +146,6 @@ export function singleChangeEvaluator(model: CompiledModel, options: SingleChang
   };
 
   return { model, independentSets: total, base, toggle };
-}
-
-function tooLarge(count: number, limit: number): TooLargeError {
-  return new TooLargeError(
-    `the design has more than ${limit.toLocaleString('en-US')} independent sets (the memory guard of single-change evaluation, ` +
-      'about 200 bytes per set); raise --max-sets if memory allows',
-    count,
-    limit,
-  );
 }
 
 function localIndex(members: Int32Array, k: number): number {

@@ -26,7 +26,6 @@ export interface DesignFields {
   readonly forbidden: ReadonlyArray<readonly [string, string]>;
 }
 
-const isObj = (v: unknown): v is Record<string, unknown> => typeof v === 'object' && v !== null && !Array.isArray(v);
 const show = (v: unknown): string => (v === undefined ? 'missing' : JSON.stringify(v) ?? String(v));
 
 /** Reads and checks the recommender fields of a validated scenario; throws InvalidScenarioError. */
