@@ -6,19 +6,23 @@
  *
  * - today: today's design.
  * - all candidates: today's design plus every candidate.
- * - long chain: today's design plus the candidates on one cycle through all classes ("Principles on
+ * - long chain: one cycle through all classes and nothing else that can be dropped ("Principles on
  *   the benefits of manufacturing process flexibility", Management Science 1995: a single long chain
- *   captures most of the benefit of full flexibility). The cycle is searched depth-first from the
- *   first class over the available pairs (self-loops ignored), trying pairs that already exist
- *   (cost 0) first and then candidates by increasing cost, ties by class order; the cheapest cycle
- *   found within a fixed number of steps is used, or, when no cycle through every class exists, the
- *   longest path found from any class (ties: cheaper, then the first found).
- * - two per class: every class gets at least two compatibilities ("A staffing algorithm for call
- *   centers with skill-based routing", Manufacturing & Service Operations Management 2005: agents
- *   with two skills capture most of the benefit of cross-training). Classes are taken by decreasing
- *   rate (ties: class order); while a class has fewer than two compatibilities (a self-loop counts
- *   once), its cheapest remaining candidate is added, ties to the partner with fewer compatibilities,
- *   then to class order.
+ *   captures most of the benefit of full flexibility). Fixed compatibilities stay (they cannot be
+ *   dropped); today's removable compatibilities on the cycle are kept, the others are dropped (their
+ *   savings count); candidates on the cycle are funded. The cycle is searched depth-first from the
+ *   first class over the available pairs (self-loops ignored), trying pairs that cost nothing first
+ *   (fixed ones), then by increasing price (a kept removable pair costs its forgone saving, a
+ *   candidate its cost), ties by class order; the cheapest cycle found within a fixed number of steps
+ *   is used, or, when no cycle through every class exists, the longest path found from any class
+ *   (ties: cheaper, then the first found).
+ * - two per class: every class gets two compatibilities ("A staffing algorithm for call centers
+ *   with skill-based routing", Manufacturing & Service Operations Management 2005: agents with two
+ *   skills capture most of the benefit of cross-training). Start from the fixed compatibilities only
+ *   (every removable one dropped); classes are taken by decreasing rate (ties: class order); while a
+ *   class has fewer than two compatibilities (a self-loop counts once), the cheapest pair touching it
+ *   is switched on (a removable pair costs its forgone saving, a candidate its cost), ties to the
+ *   partner with fewer compatibilities, then to class order.
  */
 import { degrees, type DesignProblem } from './problem.js';
 
@@ -63,11 +67,11 @@ export function allCandidatesBaseline(problem: DesignProblem): Baseline {
 interface Arc {
   readonly to: number;
   readonly cost: number;
-  /** Toggle index of a candidate, or -1 when the pair already exists. */
+  /** Toggle index of a removable or candidate pair, or -1 for a fixed pair. */
   readonly toggle: number;
 }
 
-/** Available non-loop pairs per class, cheapest first (existing pairs cost 0), ties by class. */
+/** Available non-loop pairs per class, cheapest first (fixed pairs cost 0), ties by class. */
 function availableArcs(problem: DesignProblem): Arc[][] {
   const best = new Map<number, Arc>();
   const put = (a: number, b: number, cost: number, toggle: number): void => {
@@ -83,8 +87,7 @@ function availableArcs(problem: DesignProblem): Arc[][] {
   for (const [a, b] of problem.fixed) if (a !== b) put(a, b, 0, -1);
   problem.toggles.forEach((t, j) => {
     if (t.a === t.b) return;
-    if (t.kind === 'removable') put(t.a, t.b, 0, -1);
-    else put(t.a, t.b, t.price, j);
+    put(t.a, t.b, t.price, j);
   });
   const arcs: Arc[][] = Array.from({ length: problem.n }, () => []);
   for (const [key, arc] of best) arcs[Math.floor(key / problem.n)]!.push(arc);
@@ -142,25 +145,30 @@ export function longChainBaseline(problem: DesignProblem): Baseline {
   if (n >= 2) from(0, true);
   if (!bestCycle) for (let s = 1; s < n && steps <= CHAIN_SEARCH_STEPS && bestPath.length < n; s++) from(s, false);
   const chosen = bestCycle ? bestCycle.toggles : bestPath.toggles;
-  const design = Uint8Array.from(problem.today);
+  const design = new Uint8Array(problem.toggles.length);
   const deg = degrees(problem, design);
   let skipped = 0;
   for (const j of [...chosen].sort((x, y) => x - y)) if (!tryAdd(problem, design, deg, j)) skipped++;
-  const shape = bestCycle ? `cycle through all ${n} classes` : `path through ${bestPath.length} of ${n} classes (no cycle through all)`;
-  return { name: 'long chain', design, note: `${shape}, ${chosen.length} candidate${chosen.length === 1 ? '' : 's'} added${skipped ? `, ${skipped} skipped (maxCompatibilities)` : ''}` };
+  const added = chosen.filter((j) => problem.toggles[j]!.kind === 'candidate' && design[j]).length;
+  const dropped = problem.toggles.filter((t, j) => t.kind === 'removable' && !design[j]).length;
+  const shape = bestCycle ? `one cycle through all ${n} classes` : `one path through ${bestPath.length} of ${n} classes (no cycle through all)`;
+  return {
+    name: 'long chain',
+    design,
+    note: `${shape}: ${added} candidate${added === 1 ? '' : 's'} added, ${dropped} removable dropped${skipped ? `, ${skipped} skipped (maxCompatibilities)` : ''}`,
+  };
 }
 
 export function twoPerClassBaseline(problem: DesignProblem): Baseline {
   const n = problem.n;
-  const design = Uint8Array.from(problem.today);
+  const design = new Uint8Array(problem.toggles.length);
   const deg = degrees(problem, design);
   const order = Array.from({ length: n }, (_, k) => k).sort((x, y) => problem.rates[y]! - problem.rates[x]! || x - y);
-  let added = 0;
   for (const k of order) {
     while (deg[k]! < 2) {
       let pick = -1;
       problem.toggles.forEach((t, j) => {
-        if (t.kind !== 'candidate' || design[j] || (t.a !== k && t.b !== k)) return;
+        if (design[j] || (t.a !== k && t.b !== k)) return;
         const other = t.a === k ? t.b : t.a;
         if (deg[t.a]! + 1 > problem.maxDegree[t.a]! || (t.b !== t.a && deg[t.b]! + 1 > problem.maxDegree[t.b]!)) return;
         if (pick < 0) {
@@ -174,10 +182,15 @@ export function twoPerClassBaseline(problem: DesignProblem): Baseline {
       });
       if (pick < 0) break;
       tryAdd(problem, design, deg, pick);
-      added++;
     }
   }
-  return { name: 'two per class', design, note: `${added} candidate${added === 1 ? '' : 's'} added so that every class has two compatibilities where possible` };
+  const added = problem.toggles.filter((t, j) => t.kind === 'candidate' && design[j]).length;
+  const dropped = problem.toggles.filter((t, j) => t.kind === 'removable' && !design[j]).length;
+  return {
+    name: 'two per class',
+    design,
+    note: `two compatibilities per class where possible: ${added} candidate${added === 1 ? '' : 's'} added, ${dropped} removable dropped`,
+  };
 }
 
 /** The four baselines, in display order. */

@@ -105,6 +105,35 @@ describe('baselines', () => {
     expect(Array.from(twoPerClassBaseline(p).design)).toEqual([0, 1, 1, 1, 1]);
   });
 
+  it('long chain and two per class drop the removable pairs the rule does not use (derived by hand)', () => {
+    // Today: triangle 0–1–2 of removable pairs (savings 5, 1, 3) and a removable self-loop on 3
+    // (saving 2); candidates 2–3 (cost 4), 0–3 (6), 1–3 (10). Keeping a removable pair "costs" its
+    // forgone saving. Cycles through all four classes, by hand:
+    //   0–1–2–3–0: 5 + 1 + 4 + 6 = 16   0–1–3–2–0: 5 + 10 + 4 + 3 = 22   0–2–1–3–0: 3 + 1 + 10 + 6 = 20
+    //   0–2–3–1–0: 3 + 4 + 10 + 5 = 22  0–3–1–2–0: 6 + 10 + 1 + 3 = 20   0–3–2–1–0 is 0–1–2–3–0 reversed.
+    // Cheapest: 0–1–2–3–0 → keep 0–1 and 1–2, drop 0–2 and the self-loop, fund 2–3 and 0–3.
+    const toggles: Toggle[] = [
+      { a: 0, b: 1, kind: 'removable', price: 5, source: 0 },
+      { a: 1, b: 2, kind: 'removable', price: 1, source: 1 },
+      { a: 0, b: 2, kind: 'removable', price: 3, source: 2 },
+      { a: 3, b: 3, kind: 'removable', price: 2, source: 3 },
+      { a: 2, b: 3, kind: 'candidate', price: 4, source: 0 },
+      { a: 0, b: 3, kind: 'candidate', price: 6, source: 1 },
+      { a: 1, b: 3, kind: 'candidate', price: 10, source: 2 },
+    ];
+    const base = candidatesOnly([1, 2, 3, 4], []);
+    const p: DesignProblem = { ...base, toggles, today: Uint8Array.from([1, 1, 1, 1, 0, 0, 0]) };
+    const chain = longChainBaseline(p);
+    expect(Array.from(chain.design)).toEqual([1, 1, 0, 0, 1, 1, 0]);
+    expect(chain.note).toMatch(/2 candidates added, 2 removable dropped/);
+    // Two per class, from nothing: order by rate k3 (4), k2 (3), k1 (2), k0 (1).
+    //   k3: pairs touching it: self-loop (2), 2–3 (4), 0–3 (6), 1–3 (10) → self-loop, then 2–3.
+    //   k2: has 2–3; cheapest of 1–2 (1), 0–2 (3) → 1–2.   k1: has 1–2; cheapest 0–1 (5) vs 1–3 (10) → 0–1.
+    //   k0: has 0–1; cheapest 0–2 (3) → 0–2.
+    const two = twoPerClassBaseline(p);
+    expect(Array.from(two.design)).toEqual([1, 1, 1, 1, 1, 0, 0]);
+  });
+
   it('all candidates, and maxCompatibilities respected when adding', () => {
     const p = candidatesOnly([1, 1, 1], [
       [0, 1, 1],
