@@ -5,7 +5,6 @@
  */
 import { availableParallelism } from 'node:os';
 import cliProgress from 'cli-progress';
-import Table from 'cli-table3';
 import { describeCertificate, EdgewiseError, UsageError, type InstabilityCertificate } from '../../errors.js';
 import { evaluateExact } from '../../exact/evaluate.js';
 import type { ExactResult } from '../../exact/result.js';
@@ -16,7 +15,7 @@ import { simulate, type SimulationResult } from '../../sim/simulate.js';
 import type { Estimate, WaitEstimate } from '../../sim/summary.js';
 import { certificateWithIds } from '../../stability/certificate.js';
 import { checkStability } from '../../stability/check.js';
-import { num, pct, round } from '../format.js';
+import { num, pct, round, table } from '../format.js';
 import type { CommandIO } from '../io.js';
 import { loadScenario } from '../load.js';
 
@@ -225,9 +224,6 @@ function pm(e: Estimate, f: (x: number) => string = (v) => num(v)): string {
 
 const pmPct = (e: Estimate): string => (!Number.isFinite(e.mean) ? '—' : e.ci95 ? `${pct(e.mean)} ± ${pct((e.ci95[1] - e.ci95[0]) / 2)}` : pct(e.mean));
 
-function table(head: string[]): Table.Table {
-  return new Table({ head, style: { head: [], border: [] } });
-}
 
 function toText(scenario: Scenario, model: CompiledModel, r: SimulationResult, exact: { exact?: ExactResult; reason?: string }): string {
   const x = exact.exact;
