@@ -8,12 +8,22 @@
  * candidates' total cost. Time and exact evaluations to the front; evaluations as a share of the
  * 2^k designs; on a 14-candidate case, the ratio to an actual exhaustive enumeration. When the build
  * exists (npm run build), the largest case is also run from dist with --jobs 2 on worker threads.
+ *
+ * Case `penalty-reuse`: the penalty check of two larger designs (24 and 30 classes: a ring with a
+ * self-pair, a few fixed chords and 8 paid chords, rates from positive flows), i.e. the 8 designs
+ * "minus one paid chord", scored afresh and by reuse of the single-change evaluator
+ * (src/design/score-flips.ts), with per-class figures (weighted / max-wait objectives, wait targets)
+ * and with the total backlog alone; CPU time, best of a few. Where the recommender reuses is decided
+ * in src/design/reuse.ts from the figures of bench/_incremental-crossover.ts.
  */
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import type { DesignProblem, Toggle } from '../src/design/problem.js';
 import { recommend, type Recommendation, type RecommendOptions } from '../src/design/recommend.js';
+import { reuses } from '../src/design/reuse.js';
+import { flipped, scoreFlips } from '../src/design/score-flips.js';
+import { scoreDesign, type ScoreSpec } from '../src/design/score.js';
 import { seededRandom } from '../src/random.js';
 
 function benchProblem(n: number, candidates: number, seed: number, budgetShare: number): DesignProblem {
@@ -109,6 +119,77 @@ async function runCase(name: string): Promise<void> {
   }
 }
 
+/**
+ * A ring of n classes with a self-pair at 0, `extra` fixed chords and k paid chords (all on), rates
+ * from positive flows on every pair (so the design is stable).
+ */
+function ringWithChords(n: number, extra: number, k: number, seed: number, perClass: boolean): { spec: ScoreSpec; design: Uint8Array } {
+  const random = seededRandom(seed);
+  const fixed: Array<[number, number]> = [[0, 0]];
+  const used = new Set<number>([0]);
+  const id = (a: number, b: number): number => Math.min(a, b) * n + Math.max(a, b);
+  for (let i = 0; i < n; i++) {
+    fixed.push([Math.min(i, (i + 1) % n), Math.max(i, (i + 1) % n)]);
+    used.add(id(i, (i + 1) % n));
+  }
+  const chord = (): [number, number] => {
+    for (;;) {
+      const a = Math.floor(random() * n);
+      const b = Math.floor(random() * n);
+      if (a === b || used.has(id(a, b))) continue;
+      used.add(id(a, b));
+      return [Math.min(a, b), Math.max(a, b)];
+    }
+  };
+  for (let c = 0; c < extra; c++) fixed.push(chord());
+  const toggles: Array<[number, number]> = [];
+  while (toggles.length < k) toggles.push(chord());
+  const rates = new Array<number>(n).fill(0);
+  for (const [a, b] of [...fixed, ...toggles]) {
+    const mu = 0.3 + random();
+    rates[a]! += mu;
+    rates[b]! += mu;
+  }
+  return { spec: { ids: Array.from({ length: n }, (_, i) => `r${i}`), rates, fixed, toggles, perClass }, design: new Uint8Array(k).fill(1) };
+}
+
+function penaltyReuse(): void {
+  const cpu = (): number => {
+    const u = process.cpuUsage();
+    return (u.user + u.system) / 1000;
+  };
+  const k = 8;
+  // (classes, extra fixed chords, seed): the designs of bench/_incremental-crossover.ts "ring 24" and "meshed 30"
+  for (const [n, extra, seed] of [
+    [24, 0, 1024],
+    [30, 10, 1030],
+  ] as const) {
+    for (const perClass of [true, false]) {
+      const { spec, design } = ringWithChords(n, extra, k, seed, perClass);
+      const flips = Array.from({ length: k }, (_, j) => j);
+      const sets = scoreDesign(spec, design).independentSets;
+      const stable = flips.filter((j) => scoreDesign(spec, flipped(design, j)).stable).length;
+      // best of a few repetitions, the two ways interleaved
+      let fresh = Infinity;
+      let reuse = Infinity;
+      for (let r = 0; r < (sets > 200_000 ? 3 : 5); r++) {
+        let c0 = cpu();
+        flips.map((j) => scoreDesign(spec, flipped(design, j)));
+        fresh = Math.min(fresh, cpu() - c0);
+        c0 = cpu();
+        scoreFlips(spec, design, flips);
+        reuse = Math.min(reuse, cpu() - c0);
+      }
+      console.log(
+        `${'penalty-reuse'.padEnd(26)} ${n} classes, ${sets.toLocaleString('en-US')} sets, ${k} paid toggles (${stable} drops stable), ${perClass ? 'per-class figures' : 'total backlog only'}: ` +
+          `penalty check ${fresh.toFixed(0)} ms afresh, ${reuse.toFixed(0)} ms by reuse (${(reuse / fresh).toFixed(2)}); ` +
+          `the recommender ${reuses('auto', perClass, sets, k) ? 'reuses' : 'scores afresh'} here`,
+      );
+    }
+  }
+}
+
 const arg = process.argv[2];
 console.log('recommend: time and exact evaluations to the Pareto front (objective: total backlog)');
-for (const name of arg ? [arg] : Object.keys(CASES)) await runCase(name);
+for (const name of arg ? (arg in CASES ? [arg] : []) : Object.keys(CASES)) await runCase(name);
+if (!arg || arg === 'penalty-reuse') penaltyReuse();

@@ -43,6 +43,7 @@ export { escapeHtml } from './report/escape.js';
 export { readDesignFields, type DesignFields } from './model/design-fields.js';
 export { designProblem, designCost, designChanges, designPairs, type DesignProblem, type Toggle, type ToggleKind, type ForcedRemoval } from './design/problem.js';
 export { recommend, designDetails, type RecommendOptions, type RecommendProgress, type Recommendation, type DesignDetails, type BaselineResult } from './design/recommend.js';
+export type { ReuseMode } from './design/reuse.js';
 export { OBJECTIVES, objectiveValue, type ObjectiveName } from './design/objective.js';
 export { paretoFront, type ParetoPoint } from './design/pareto.js';
 export { cheapestStableDesign, maxMinFlowDesign, flowMilp, type MilpDesign, type FlowMilpOptions } from './design/milp.js';

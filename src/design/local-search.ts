@@ -12,14 +12,16 @@
  *
  * Expanding a design scores in particular every design obtained by dropping one compatibility it
  * pays for, so its flexibility penalty (penalty.ts) is known afterwards; designs that pay for a
- * harmful compatibility are refused and leave the archive.
+ * harmful compatibility are refused and leave the archive. The add/remove neighbours of an expanded
+ * design are passed with it as their origin, so that the evaluator may score them by reusing its
+ * single-change preparation (reuse.ts).
  *
  * Determinism: the designs of a round are listed in a fixed order (layers sorted by cost, objective,
  * changes, key; neighbours by toggle index) and scored as one batch whose results come back in that
  * order, so the search never depends on which worker finishes first.
  */
 import { admissibleBeforeEvaluation, designKey, type DesignProblem } from './problem.js';
-import type { DesignEvaluator, DesignRecord } from './evaluator.js';
+import type { DesignEvaluator, DesignRecord, Origin } from './evaluator.js';
 import { comparePoints, paretoFront, paretoLayers } from './pareto.js';
 import { penaltyVerdict } from './penalty.js';
 
@@ -129,6 +131,17 @@ function kickDesigns(problem: DesignProblem, front: readonly DesignRecord[], cou
   return out;
 }
 
+/** The one toggle by which b differs from a, or -1 (none, or several). */
+function flippedToggle(a: ArrayLike<number>, b: ArrayLike<number>): number {
+  let found = -1;
+  for (let j = 0; j < a.length; j++) {
+    if ((a[j] ? 1 : 0) === (b[j] ? 1 : 0)) continue;
+    if (found >= 0) return -1;
+    found = j;
+  }
+  return found;
+}
+
 /** Runs the search from the seeds (designs outside the budget or limits are ignored). */
 export async function paretoLocalSearch(evaluator: DesignEvaluator, seeds: readonly Uint8Array[], options: SearchOptions): Promise<SearchResult> {
   const problem = evaluator.problem;
@@ -163,6 +176,7 @@ export async function paretoLocalSearch(evaluator: DesignEvaluator, seeds: reado
     }
     rounds++;
     const batch: Uint8Array[] = [];
+    const origins: Array<Origin | undefined> = [];
     const queued = new Set<string>();
     for (const { r, level } of frontier) {
       for (const d of neighbours(problem, r.design, level === 2)) {
@@ -170,9 +184,11 @@ export async function paretoLocalSearch(evaluator: DesignEvaluator, seeds: reado
         if (evaluator.has(key) || queued.has(key)) continue;
         queued.add(key);
         batch.push(d);
+        const j = flippedToggle(r.design, d);
+        origins.push(j >= 0 ? { from: r, toggle: j } : undefined);
       }
     }
-    await evaluator.evaluate(batch);
+    await evaluator.evaluate(batch, origins);
     for (const { r, level } of frontier) {
       state.expanded.set(r.key, level);
       state.judge(r);

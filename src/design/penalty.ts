@@ -6,6 +6,7 @@
  */
 import { designKey, type DesignProblem } from './problem.js';
 import { lower } from './objective.js';
+import type { DesignRecord, Origin } from './evaluator.js';
 
 /** What the penalty needs to know about a scored design. */
 export interface PenaltyView {
@@ -30,6 +31,22 @@ export function without(design: ArrayLike<number>, j: number): Uint8Array {
 /** The designs whose scores the verdict needs: one per paid toggle, with that toggle off. */
 export function penaltyNeighbours(problem: DesignProblem, design: ArrayLike<number>): Uint8Array[] {
   return paidToggles(problem, design).map((j) => without(design, j));
+}
+
+/**
+ * The penalty neighbours of scored designs, each with its origin (the design it drops a toggle of),
+ * so that the evaluator may score them by reuse.
+ */
+export function penaltyBatch(problem: DesignProblem, records: readonly DesignRecord[]): { designs: Uint8Array[]; origins: Origin[] } {
+  const designs: Uint8Array[] = [];
+  const origins: Origin[] = [];
+  for (const from of records) {
+    for (const j of paidToggles(problem, from.design)) {
+      designs.push(without(from.design, j));
+      origins.push({ from, toggle: j });
+    }
+  }
+  return { designs, origins };
 }
 
 export interface PenaltyVerdict {

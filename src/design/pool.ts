@@ -2,7 +2,8 @@
  * Parallel scoring of designs on worker threads, with the number of batches in flight bounded by
  * p-limit. Results always come back in the order of the input, whatever order the workers finish
  * in, so the search that consumes them never depends on timing (`--jobs 1` and `--jobs 2` give the
- * same output).
+ * same output). Work comes as tasks (score-task.ts): single designs travel in chunks; the flips of
+ * a base design (scored by reuse) travel alone, dispatched first since they are the longest units.
  *
  * Workers run the compiled module dist/design/score-worker.js. When this module runs from the
  * TypeScript sources (vitest, tsx) there is no compiled worker next to it; scoring then runs in the
@@ -10,7 +11,8 @@
  */
 import { Worker } from 'node:worker_threads';
 import pLimit from 'p-limit';
-import { scoreDesign, type Score, type ScoreSpec } from './score.js';
+import type { Score, ScoreSpec } from './score.js';
+import { runTask, type ScoreTask } from './score-task.js';
 import { rebuildError, type WorkerReply, type WorkerRequest } from './worker-protocol.js';
 
 export interface Scorer {
@@ -19,6 +21,8 @@ export interface Scorer {
   readonly jobs: number;
   /** Scores of the designs, in input order. */
   score(designs: readonly Uint8Array[]): Promise<Score[]>;
+  /** Scores of each task (one per design, one per flip), in input order. */
+  scoreTasks(tasks: readonly ScoreTask[]): Promise<Score[][]>;
   /** Stops the workers (always call it, or the process stays alive). */
   close(): Promise<void>;
 }
@@ -44,7 +48,8 @@ export function inThreadScorer(spec: ScoreSpec, jobs = 1): Scorer {
   return {
     mode: 'in-thread',
     jobs,
-    score: async (designs) => designs.map((d) => scoreDesign(spec, d)),
+    score: async (designs) => designs.map((design) => runTask(spec, { design })[0]!),
+    scoreTasks: async (tasks) => tasks.map((t) => runTask(spec, t)),
     close: async () => undefined,
   };
 }
@@ -53,7 +58,7 @@ class WorkerScorer implements Scorer {
   readonly mode = 'workers' as const;
   private readonly workers: Worker[] = [];
   private readonly idle: Worker[] = [];
-  private readonly pending = new Map<number, { resolve: (s: Score[]) => void; reject: (e: Error) => void }>();
+  private readonly pending = new Map<number, { resolve: (s: Score[][]) => void; reject: (e: Error) => void }>();
   private readonly limit: ReturnType<typeof pLimit>;
   private nextId = 0;
   private failure: Error | undefined;
@@ -88,13 +93,13 @@ class WorkerScorer implements Scorer {
     return w;
   }
 
-  private run(batch: Uint8Array[]): Promise<Score[]> {
+  private run(batch: ScoreTask[]): Promise<Score[][]> {
     if (this.failure) return Promise.reject(this.failure);
     const w = this.idle.pop() ?? this.spawn();
     const id = this.nextId++;
-    return new Promise<Score[]>((resolve, reject) => {
+    return new Promise<Score[][]>((resolve, reject) => {
       this.pending.set(id, { resolve, reject });
-      const msg: WorkerRequest = { id, designs: batch };
+      const msg: WorkerRequest = { id, tasks: batch };
       w.postMessage(msg);
     }).finally(() => {
       this.idle.push(w);
@@ -102,10 +107,26 @@ class WorkerScorer implements Scorer {
   }
 
   async score(designs: readonly Uint8Array[]): Promise<Score[]> {
-    if (designs.length === 0) return [];
-    const parts = chunks(designs, chunkSize(designs.length, this.jobs));
-    const results = await Promise.all(parts.map((part) => this.limit(() => this.run(part))));
-    return results.flat();
+    const scores = await this.scoreTasks(designs.map((design) => ({ design })));
+    return scores.map((s) => s[0]!);
+  }
+
+  async scoreTasks(tasks: readonly ScoreTask[]): Promise<Score[][]> {
+    if (tasks.length === 0) return [];
+    const flips: number[] = [];
+    const singles: number[] = [];
+    tasks.forEach((t, i) => ('design' in t ? singles : flips).push(i));
+    const parts = [...flips.map((i) => [i]), ...chunks(singles, chunkSize(singles.length, this.jobs))];
+    const out: Score[][] = new Array<Score[]>(tasks.length);
+    await Promise.all(
+      parts.map((part) =>
+        this.limit(async () => {
+          const scores = await this.run(part.map((i) => tasks[i]!));
+          part.forEach((i, q) => (out[i] = scores[q]!));
+        }),
+      ),
+    );
+    return out;
   }
 
   async close(): Promise<void> {

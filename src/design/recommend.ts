@@ -4,7 +4,9 @@
  * 1. MILP stage (milp.ts, HiGHS): the cheapest stable design, and for a ladder of budget levels the
  *    design that maximises the smallest edge flow; each answer verified with checkStability.
  * 2. Pareto local search (local-search.ts) from today's design, the MILP designs and the baselines,
- *    or, with `exhaustive`, every design (exhaustive.ts). Scoring runs on worker threads (pool.ts).
+ *    or, with `exhaustive`, every design (exhaustive.ts). Scoring runs on worker threads (pool.ts);
+ *    designs one toggle from a scored design may be scored by reuse of its single-change preparation
+ *    (reuse.ts).
  * 3. The Pareto archive (pareto.ts) of admissible designs (stable, within budget and limits, wait
  *    targets met, no harmful paid compatibility), sorted by cost; baselines (baselines.ts) beside it,
  *    with their distance to the front at their cost.
@@ -23,8 +25,9 @@ import { paretoLocalSearch } from './local-search.js';
 import { budgetLadder, cheapestStableDesign, maxMinFlowDesign, type MilpDesign } from './milp.js';
 import { objectiveValue, type ObjectiveName } from './objective.js';
 import { frontValueAt } from './pareto.js';
-import { penaltyNeighbours, penaltyVerdict } from './penalty.js';
+import { penaltyBatch, penaltyVerdict } from './penalty.js';
 import { createScorer, workerScriptUrl } from './pool.js';
+import type { ReuseMode } from './reuse.js';
 import {
   degreesAllowed,
   designChanges,
@@ -67,6 +70,13 @@ export interface RecommendOptions {
   /** Random kicks of the local search (default: the number of toggles). */
   readonly kicks?: number;
   readonly onProgress?: (p: RecommendProgress) => void;
+  /**
+   * Scoring of the designs one toggle away from a scored design (add/remove moves, the penalty's
+   * neighbours) by reuse of its single-change preparation: 'auto' (default) where reuse.ts measured
+   * it to pay, 'always', 'never'. Results do not depend on it beyond 1e-10 relative in the search's
+   * own figures; every returned figure comes from a fresh evaluation.
+   */
+  readonly reuse?: ReuseMode;
   /** Compiled scoring worker; null forces scoring in the calling thread. Default: next to pool.js. */
   readonly workerUrl?: URL | null;
 }
@@ -208,7 +218,7 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
   const url = options.workerUrl === null ? undefined : (options.workerUrl ?? workerScriptUrl());
   const scorer = createScorer(spec, options.jobs ?? 1, url);
   let phase: RecommendProgress['phase'] = 'milp';
-  const evaluator = new DesignEvaluator(problem, objective, scorer, (p) => options.onProgress?.({ phase, ...p }));
+  const evaluator = new DesignEvaluator(problem, objective, scorer, (p) => options.onProgress?.({ phase, ...p }), options.reuse ?? 'auto');
   const solve = { timeLimitSeconds: options.milpTimeLimitSeconds ?? 30 };
   try {
     options.onProgress?.({ phase, scored: 0, evaluations: 0 });
@@ -259,7 +269,8 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
     const pareto = front.map((r) => designDetails(problem, objective, r.design, options.maxSets));
     // Baselines: scored (with the neighbours their penalty needs) outside the search's count.
     const baseRecords = await evaluator.evaluate(base.map((b) => b.design));
-    await evaluator.evaluate(base.flatMap((b) => penaltyNeighbours(problem, b.design)));
+    const neighbours = penaltyBatch(problem, baseRecords);
+    await evaluator.evaluate(neighbours.designs, neighbours.origins);
     const results: BaselineResult[] = base.map((b, i) => {
       const rec = baseRecords[i]!;
       const details = designDetails(problem, objective, b.design, options.maxSets);

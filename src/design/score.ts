@@ -8,7 +8,7 @@
  * (UnstableDesignError), which is the stability condition.
  */
 import { UnstableDesignError } from '../errors.js';
-import { compileGraph } from '../model/compile.js';
+import { compileGraph, type CompiledModel } from '../model/compile.js';
 import { bipartition, components } from '../model/components.js';
 import { evaluateBacklog, evaluateExact } from '../exact/evaluate.js';
 
@@ -37,17 +37,32 @@ export interface Score {
   readonly evaluated: boolean;
 }
 
-const UNSTABLE_UNEVALUATED: Score = { stable: false, backlogTotal: NaN, backlog: null, independentSets: 0, evaluated: false };
-
-export function scoreDesign(spec: ScoreSpec, design: ArrayLike<number>): Score {
+/** The compiled graph of a design: the fixed pairs, then the toggles that are on. */
+export function specModel(spec: ScoreSpec, design: ArrayLike<number>): CompiledModel {
   const pairs: Array<readonly [number, number]> = [...spec.fixed];
   for (let j = 0; j < spec.toggles.length; j++) if (design[j]) pairs.push(spec.toggles[j]!);
-  const model = compileGraph(spec.ids, spec.rates, pairs);
+  return compileGraph(spec.ids, spec.rates, pairs);
+}
+
+/** The score of a design refused without evaluating (unstable at sight). */
+export const UNSTABLE_UNEVALUATED: Score = { stable: false, backlogTotal: NaN, backlog: null, independentSets: 0, evaluated: false };
+
+/** The score of a design the exact recursion found unstable (it counts as an evaluation). */
+export const UNSTABLE_EVALUATED: Score = { ...UNSTABLE_UNEVALUATED, evaluated: true };
+
+/** True when the design is unstable at sight: a class without compatibility, or a bipartite component. */
+export function unstableAtSight(model: CompiledModel): boolean {
   for (let k = 0; k < model.n; k++) {
-    if (model.adjStart[k + 1] === model.adjStart[k] && !model.selfLoop[k]) return UNSTABLE_UNEVALUATED;
+    if (model.adjStart[k + 1] === model.adjStart[k] && !model.selfLoop[k]) return true;
   }
   const comps = components(model);
-  for (const members of comps.members) if (bipartition(model, members)) return UNSTABLE_UNEVALUATED;
+  for (const members of comps.members) if (bipartition(model, members)) return true;
+  return false;
+}
+
+export function scoreDesign(spec: ScoreSpec, design: ArrayLike<number>): Score {
+  const model = specModel(spec, design);
+  if (unstableAtSight(model)) return UNSTABLE_UNEVALUATED;
   const options = spec.maxSets === undefined ? {} : { maxSets: spec.maxSets };
   try {
     if (spec.perClass) {
@@ -57,7 +72,7 @@ export function scoreDesign(spec: ScoreSpec, design: ArrayLike<number>): Score {
     const r = evaluateBacklog(model, options);
     return { stable: true, backlogTotal: r.backlogTotal, backlog: null, independentSets: r.independentSets, evaluated: true };
   } catch (e) {
-    if (e instanceof UnstableDesignError) return { ...UNSTABLE_UNEVALUATED, evaluated: true };
+    if (e instanceof UnstableDesignError) return UNSTABLE_EVALUATED;
     throw e;
   }
 }

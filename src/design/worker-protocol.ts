@@ -4,10 +4,11 @@
  */
 import { EdgewiseError, SolverError, TooLargeError } from '../errors.js';
 import type { Score } from './score.js';
+import type { ScoreTask } from './score-task.js';
 
 export interface WorkerRequest {
   readonly id: number;
-  readonly designs: readonly Uint8Array[];
+  readonly tasks: readonly ScoreTask[];
 }
 
 export interface SerializedError {
@@ -17,7 +18,8 @@ export interface SerializedError {
   readonly limit?: number;
 }
 
-export type WorkerReply = { readonly id: number; readonly scores: Score[] } | { readonly id: number; readonly error: SerializedError };
+/** scores[t]: the scores of tasks[t], in order. */
+export type WorkerReply = { readonly id: number; readonly scores: Score[][] } | { readonly id: number; readonly error: SerializedError };
 
 export function serializeError(e: unknown): SerializedError {
   if (e instanceof TooLargeError) return { name: e.name, message: e.message, count: e.count, limit: e.limit };
