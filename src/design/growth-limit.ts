@@ -20,7 +20,7 @@ import type { CompiledModel } from '../model/compile.js';
 import { components } from '../model/components.js';
 import type { LinearProgram, LpConstraint, LpVariable } from '../solvers/lp.js';
 import { solveWithJsLp } from '../solvers/jslp.js';
-import { componentEdges } from '../stability/programs.js';
+import { componentEdges, incidenceRows } from '../stability/programs.js';
 
 /** How the limit was found (for outputs that must say so). */
 export const GROWTH_LIMIT_METHOD = 'edge-flow LP along the growth direction (javascript-lp-solver, answer checked)';
@@ -28,25 +28,10 @@ export const GROWTH_LIMIT_METHOD = 'edge-flow LP along the growth direction (jav
 /** The LP above for one component (rates in units of the component's mean rate). */
 export function growthProgram(model: CompiledModel, members: ArrayLike<number>, grown: Uint8Array): LinearProgram {
   const edges = componentEdges(model, members);
-  const local = new Int32Array(model.n).fill(-1);
-  for (let i = 0; i < members.length; i++) local[members[i]!] = i;
   let total = 0;
   for (let i = 0; i < members.length; i++) total += model.rates[members[i]!]!;
   const unit = total / members.length;
-  const rows = Array.from({ length: members.length }, () => ({ variables: [] as number[], coefficients: [] as number[] }));
-  edges.forEach((e, col) => {
-    const a = model.edgeA[e]!;
-    const b = model.edgeB[e]!;
-    if (a === b) {
-      rows[local[a]!]!.variables.push(col);
-      rows[local[a]!]!.coefficients.push(2);
-    } else {
-      for (const k of [a, b]) {
-        rows[local[k]!]!.variables.push(col);
-        rows[local[k]!]!.coefficients.push(1);
-      }
-    }
-  });
+  const rows = incidenceRows(model, members, edges);
   const sigma = edges.length;
   const variables: LpVariable[] = [...Array.from(edges, (e) => ({ name: `mu${e}` })), { name: 'sigma', lower: -Infinity }];
   const constraints: LpConstraint[] = rows.map((r, i) => {

@@ -16,7 +16,7 @@ export function componentEdges(model: CompiledModel, members: ArrayLike<number>)
 }
 
 /** Rows Σ_{e∋k} a_{k,e} x_{col(e)} for each member k, as sparse (variables, coefficients). */
-function incidenceRows(model: CompiledModel, members: ArrayLike<number>, edges: Int32Array): Array<{ variables: number[]; coefficients: number[] }> {
+export function incidenceRows(model: CompiledModel, members: ArrayLike<number>, edges: Int32Array): Array<{ variables: number[]; coefficients: number[] }> {
   const local = new Int32Array(model.n).fill(-1);
   for (let i = 0; i < members.length; i++) local[members[i]!] = i;
   const rows = Array.from({ length: members.length }, () => ({ variables: [] as number[], coefficients: [] as number[] }));
