@@ -1,5 +1,5 @@
 import type { MaskGraph } from './masks.js';
-import { child, type SetTrie } from './trie.js';
+import { child, nextHighest, nextLowest, type SetTrie } from './trie.js';
 
 /** Exact FCFM metrics of one connected component, in its local class indices. */
 export interface ComponentMetrics {
@@ -47,21 +47,10 @@ export function prefixSums(g: MaskGraph, t: SetTrie, psi: Float64Array, tol: num
   todoHi[0] = node[2]!;
   let d = 0;
   while (d >= 0) {
-    let c: number;
-    let x = todoLo[d]!;
-    if (x !== 0) {
-      const b = x & -x;
-      todoLo[d] = x ^ b;
-      c = 31 - Math.clz32(b);
-    } else {
-      x = todoHi[d]!;
-      if (x === 0) {
-        d--;
-        continue;
-      }
-      const b = x & -x;
-      todoHi[d] = x ^ b;
-      c = 63 - Math.clz32(b);
+    const c = nextLowest(todoLo, todoHi, d);
+    if (c < 0) {
+      d--;
+      continue;
     }
     const p = idx[d]!;
     const s = child(node, p, c);
@@ -153,18 +142,7 @@ export function tailPass(g: MaskGraph, t: SetTrie, psi: Float64Array, tail: Floa
   let d = 0;
   while (d >= 0) {
     // next child, highest first
-    let c = -1;
-    let x = todoHi[d]!;
-    if (x !== 0) {
-      c = 63 - Math.clz32(x);
-      todoHi[d] = x ^ (1 << (c - 32));
-    } else {
-      x = todoLo[d]!;
-      if (x !== 0) {
-        c = 31 - Math.clz32(x);
-        todoLo[d] = x ^ (1 << c);
-      }
-    }
+    const c = nextHighest(todoLo, todoHi, d);
     if (c >= 0) {
       // go down to A_d ∪ {c}
       const e = d + 1;

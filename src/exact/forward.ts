@@ -1,6 +1,7 @@
 import { SaturatedSet } from './component.js';
 import { maskRate, type MaskGraph } from './masks.js';
 import { child4, type SetIndex } from './set-index.js';
+import { nextLowest } from './trie.js';
 
 /**
  * Forward-only exact metrics of one component with per-class backlogs, keeping every intermediate
@@ -62,21 +63,10 @@ export function forwardSums(g: MaskGraph, t: SetIndex, tol: number, withSums = t
   todoHi[0] = node[2]!;
   let d = 0;
   while (d >= 0) {
-    let c: number;
-    let x = todoLo[d]!;
-    if (x !== 0) {
-      const b = x & -x;
-      todoLo[d] = x ^ b;
-      c = 31 - Math.clz32(b);
-    } else {
-      x = todoHi[d]!;
-      if (x === 0) {
-        d--;
-        continue;
-      }
-      const b = x & -x;
-      todoHi[d] = x ^ b;
-      c = 63 - Math.clz32(b);
+    const c = nextLowest(todoLo, todoHi, d);
+    if (c < 0) {
+      d--;
+      continue;
     }
     const p = idx[d]!;
     const s = child4(node, p, c);

@@ -1,6 +1,7 @@
 import type { ForwardSums } from './forward.js';
 import { maskRate, type MaskGraph } from './masks.js';
 import { child4 as child, type SetIndex } from './set-index.js';
+import { nextLowest } from './trie.js';
 import type { VariantScratch } from './touched-record.js';
 
 /**
@@ -194,21 +195,10 @@ export function walkFamily(
   todoHi[0] = node[2]! & xHi;
   let d = 0;
   while (d >= 0) {
-    let c: number;
-    let x = todoLo[d]!;
-    if (x !== 0) {
-      const b = x & -x;
-      todoLo[d] = x ^ b;
-      c = 31 - Math.clz32(b);
-    } else {
-      x = todoHi[d]!;
-      if (x === 0) {
-        d--;
-        continue;
-      }
-      const b = x & -x;
-      todoHi[d] = x ^ b;
-      c = 63 - Math.clz32(b);
+    const c = nextLowest(todoLo, todoHi, d);
+    if (c < 0) {
+      d--;
+      continue;
     }
     const e = d + 1;
     const sb = child(node, idxB[d]!, c);

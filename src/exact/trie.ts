@@ -31,6 +31,39 @@ export function child(node: Int32Array, s: number, c: number): number {
     : node[b]! + popcount(node[b + 1]!) + popcount(node[b + 2]! & ((1 << (c - 32)) - 1));
 }
 
+/**
+ * Depth-first walks keep, per depth d, the children still to visit as a two-word mask
+ * (todoLo[d], todoHi[d]). These take the next one off — the lowest (walks in increasing mask order)
+ * or the highest (the reverse walk) — and return its class, or -1 when none is left.
+ */
+export function nextLowest(todoLo: Int32Array, todoHi: Int32Array, d: number): number {
+  let x = todoLo[d]!;
+  if (x !== 0) {
+    const b = x & -x;
+    todoLo[d] = x ^ b;
+    return 31 - Math.clz32(b);
+  }
+  x = todoHi[d]!;
+  if (x === 0) return -1;
+  const b = x & -x;
+  todoHi[d] = x ^ b;
+  return 63 - Math.clz32(b);
+}
+
+export function nextHighest(todoLo: Int32Array, todoHi: Int32Array, d: number): number {
+  let x = todoHi[d]!;
+  if (x !== 0) {
+    const c = 63 - Math.clz32(x);
+    todoHi[d] = x ^ (1 << (c - 32));
+    return c;
+  }
+  x = todoLo[d]!;
+  if (x === 0) return -1;
+  const c = 31 - Math.clz32(x);
+  todoLo[d] = x ^ (1 << c);
+  return c;
+}
+
 /** Builds the trie of all `count` independent sets (count from countIndependentSets). */
 export function buildTrie(g: MaskGraph, count: number): SetTrie {
   const n = g.n;
