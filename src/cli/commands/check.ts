@@ -1,4 +1,4 @@
-import { describeCertificate } from '../../errors.js';
+import { reportUnstable } from '../unstable.js';
 import { compileModel, type CompiledModel } from '../../model/compile.js';
 import type { Scenario } from '../../model/scenario.js';
 import { certificateWithIds } from '../../stability/certificate.js';
@@ -78,13 +78,7 @@ export async function checkCommand(opts: CheckOptions, io: CommandIO): Promise<n
   const model = compileModel(scenario);
   const report = checkStability(model);
   if (!report.stable) {
-    const cert = certificateWithIds(model, report.certificate!);
-    if (opts.json) {
-      const certificate = { set: cert.set, demand: round(cert.demand), capacity: round(cert.capacity), neighbours: cert.neighbours, reason: cert.reason };
-      io.out(`${JSON.stringify({ stable: false, timeUnit: scenario.timeUnit, certificate }, null, 2)}\n`);
-    }
-    io.err(`edgewise: ${describeCertificate(cert, scenario.timeUnit)}\n`);
-    return 3;
+    return reportUnstable(certificateWithIds(model, report.certificate!), scenario.timeUnit, opts.json, io);
   }
   if (opts.json) io.out(`${JSON.stringify(stableRecord(model, scenario, report), null, 2)}\n`);
   else io.out(renderStable(model, scenario, report));

@@ -1,10 +1,10 @@
-import { UnstableDesignError, describeCertificate } from '../../errors.js';
 import { compileModel } from '../../model/compile.js';
 import { evaluateExact, DEFAULT_MAX_SETS } from '../../exact/evaluate.js';
 import { checkStability } from '../../stability/check.js';
 import { certificateWithIds } from '../../stability/certificate.js';
 import { evaluationRecord, type EvaluationRecord } from '../../report/evaluation.js';
-import { UsageError } from '../../errors.js';
+import { checkMaxSets } from '../options.js';
+import { reportUnstable } from '../unstable.js';
 import { loadScenario } from '../load.js';
 import { num, pct, table } from '../format.js';
 import type { CommandIO } from '../io.js';
@@ -17,22 +17,12 @@ export interface EvaluateOptions {
 
 /** `edgewise evaluate FILE`: exact steady state under FCFM. */
 export async function evaluateCommand(opts: EvaluateOptions, io: CommandIO): Promise<number> {
+  checkMaxSets(opts.maxSets);
   const maxSets = opts.maxSets ?? DEFAULT_MAX_SETS;
-  if (!Number.isFinite(maxSets) || maxSets < 1 || !Number.isInteger(maxSets)) {
-    throw new UsageError(`--max-sets must be a positive whole number, got ${opts.maxSets}`);
-  }
   const scenario = loadScenario(opts.file, io.cwd);
   const model = compileModel(scenario);
   const stability = checkStability(model);
-  if (!stability.stable) {
-    const cert = certificateWithIds(model, stability.certificate!);
-    if (opts.json) {
-      io.out(`${JSON.stringify({ stable: false, timeUnit: scenario.timeUnit, certificate: cert }, null, 2)}\n`);
-      io.err(`edgewise: ${describeCertificate(cert, scenario.timeUnit)}\n`);
-      return 3;
-    }
-    throw new UnstableDesignError(cert, scenario.timeUnit);
-  }
+  if (!stability.stable) return reportUnstable(certificateWithIds(model, stability.certificate!), scenario.timeUnit, opts.json, io);
   const result = evaluateExact(model, { maxSets, timeUnit: scenario.timeUnit });
   const record = evaluationRecord(model, result, {
     scenario: scenario.name,

@@ -8,6 +8,7 @@ import { recommendationCsv, recommendationRecord, type IdPair, type Recommendati
 import { loadScenario } from '../load.js';
 import { num, pct, table } from '../format.js';
 import type { CommandIO } from '../io.js';
+import { checkMaxSets } from '../options.js';
 
 export interface RecommendCommandOptions {
   readonly file: string;
@@ -27,7 +28,7 @@ function checkOptions(opts: RecommendCommandOptions): ObjectiveName {
   if (opts.budget !== undefined && !Number.isFinite(opts.budget)) throw new UsageError(`--budget must be a number, got ${opts.budget}`);
   if (opts.jobs !== undefined && !(Number.isInteger(opts.jobs) && opts.jobs >= 1)) throw new UsageError(`--jobs must be a whole number >= 1, got ${opts.jobs}`);
   if (opts.seed !== undefined && !Number.isInteger(opts.seed)) throw new UsageError(`--seed must be a whole number, got ${opts.seed}`);
-  if (opts.maxSets !== undefined && !(Number.isInteger(opts.maxSets) && opts.maxSets >= 1)) throw new UsageError(`--max-sets must be a positive whole number, got ${opts.maxSets}`);
+  checkMaxSets(opts.maxSets);
   if (opts.json && opts.csv) throw new UsageError('choose one of --json and --csv');
   return objective;
 }

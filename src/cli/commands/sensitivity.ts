@@ -1,10 +1,11 @@
-import { describeCertificate, UsageError } from '../../errors.js';
+import { describeCertificate } from '../../errors.js';
 import { compileModel, type CompiledModel } from '../../model/compile.js';
 import type { SensitivityEntry, SensitivityResult } from '../../design/sensitivity.js';
 import { sensitivity } from '../../design/sensitivity.js';
 import { sensitivityRecord } from '../../report/sensitivity-record.js';
 import { num, table } from '../format.js';
 import type { CommandIO } from '../io.js';
+import { checkMaxSets } from '../options.js';
 import { loadScenario } from '../load.js';
 
 export interface SensitivityCommandOptions {
@@ -16,9 +17,7 @@ export interface SensitivityCommandOptions {
 
 /** `edgewise sensitivity FILE`: the exact effect of every single addition and removal. */
 export async function sensitivityCommand(opts: SensitivityCommandOptions, io: CommandIO): Promise<number> {
-  if (opts.maxSets !== undefined && !(Number.isInteger(opts.maxSets) && opts.maxSets >= 1)) {
-    throw new UsageError(`--max-sets must be a positive whole number, got ${opts.maxSets}`);
-  }
+  checkMaxSets(opts.maxSets);
   const scenario = loadScenario(opts.file, io.cwd);
   const model = compileModel(scenario);
   const result = sensitivity(scenario, model, {

@@ -17,6 +17,7 @@ import { certificateWithIds } from '../../stability/certificate.js';
 import { checkStability } from '../../stability/check.js';
 import { num, pct, round, table } from '../format.js';
 import type { CommandIO } from '../io.js';
+import { checkMaxSets } from '../options.js';
 import { loadScenario } from '../load.js';
 
 export interface SimulateOptions {
@@ -79,7 +80,7 @@ export async function simulateCommand(opts: SimulateOptions, io: CommandIO): Pro
   if (!isPolicyName(policy)) throw new UsageError(`--policy must be one of ${POLICIES.join(', ')}, found "${policy}"`);
   if (opts.priority !== undefined && policy !== 'priority') throw new UsageError('--priority only applies with --policy priority');
   if (policy === 'priority' && opts.priority === undefined) throw new UsageError('--policy priority needs --priority a,b,c (first = most preferred partner class)');
-  if (opts.maxSets !== undefined && !(Number.isSafeInteger(opts.maxSets) && opts.maxSets > 0)) throw new UsageError(`--max-sets must be a positive integer, found ${opts.maxSets}`);
+  checkMaxSets(opts.maxSets);
   const priority = opts.priority?.split(',').map((s) => s.trim()).filter((s) => s !== '');
 
   const scenario = loadScenario(opts.file, io.cwd);
