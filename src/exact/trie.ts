@@ -81,29 +81,20 @@ export function buildTrie(g: MaskGraph, count: number): SetTrie {
     let bHi = 0;
     let nLo = 0;
     let nHi = 0;
-    let min = n;
-    let x = sHi;
-    while (x !== 0) {
-      const b = x & -x;
-      const i = 63 - Math.clz32(b);
-      x ^= b;
-      bLo |= conLo[i]!;
-      bHi |= conHi[i]!;
-      nLo |= nbLo[i]!;
-      nHi |= nbHi[i]!;
-      if (i < min) min = i;
+    for (let w = 0; w < 2; w++) {
+      let x = w === 0 ? sLo : sHi;
+      while (x !== 0) {
+        const b = x & -x;
+        const i = (w << 5) + 31 - Math.clz32(b);
+        x ^= b;
+        bLo |= conLo[i]!;
+        bHi |= conHi[i]!;
+        nLo |= nbLo[i]!;
+        nHi |= nbHi[i]!;
+      }
     }
-    x = sLo;
-    while (x !== 0) {
-      const b = x & -x;
-      const i = 31 - Math.clz32(b);
-      x ^= b;
-      bLo |= conLo[i]!;
-      bHi |= conHi[i]!;
-      nLo |= nbLo[i]!;
-      nHi |= nbHi[i]!;
-      if (i < min) min = i;
-    }
+    // the smallest element (n for ∅)
+    const min = sLo !== 0 ? 31 - Math.clz32(sLo & -sLo) : sHi !== 0 ? 63 - Math.clz32(sHi & -sHi) : n;
     // candidates: not blocked and below min
     const belowLo = min >= 32 ? -1 : (1 << min) - 1;
     const belowHi = min <= 32 ? 0 : min >= 64 ? -1 : (1 << (min - 32)) - 1;
@@ -112,25 +103,17 @@ export function buildTrie(g: MaskGraph, count: number): SetTrie {
     node[3 * s] = size;
     node[3 * s + 1] = cLo;
     node[3 * s + 2] = cHi;
-    x = cLo;
-    while (x !== 0) {
-      const b = x & -x;
-      const c = 31 - Math.clz32(b);
-      x ^= b;
-      lo[size] = sLo | b;
-      hi[size] = sHi;
-      mu[size] = maskRate(g, nLo | nbLo[c]!, nHi | nbHi[c]!);
-      size++;
-    }
-    x = cHi;
-    while (x !== 0) {
-      const b = x & -x;
-      const c = 63 - Math.clz32(b);
-      x ^= b;
-      lo[size] = sLo;
-      hi[size] = sHi | b;
-      mu[size] = maskRate(g, nLo | nbLo[c]!, nHi | nbHi[c]!);
-      size++;
+    for (let w = 0; w < 2; w++) {
+      let x = w === 0 ? cLo : cHi;
+      while (x !== 0) {
+        const b = x & -x;
+        const c = (w << 5) + 31 - Math.clz32(b);
+        x ^= b;
+        lo[size] = w === 0 ? sLo | b : sLo;
+        hi[size] = w === 0 ? sHi : sHi | b;
+        mu[size] = maskRate(g, nLo | nbLo[c]!, nHi | nbHi[c]!);
+        size++;
+      }
     }
     if (size > count) throw new Error(`internal: more independent sets than the ${count} counted`);
   }
