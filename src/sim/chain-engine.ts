@@ -2,6 +2,7 @@ import { waitingCapError } from './cap.js';
 import type { Counters } from './counters.js';
 import { flushAreas, newCounters, resetCounters } from './counters.js';
 import { Queues } from './queues.js';
+import { selectPartner } from './select.js';
 import type { SimModel } from './sim-model.js';
 import { EXACT_ARRIVAL_BINS, largeArrivalBin } from './wait-bins.js';
 
@@ -262,9 +263,10 @@ export class ChainEngine {
     }
   }
 
-  /** longest, priority and random (the last branch, FCFM by scanning, is not reached from run()). */
+  /** longest, priority and random: the choice is selectPartner's (src/sim/select.ts). */
   private runOther(count: number): void {
-    const { n, nbrStart, nbr, nbrEdge, rank, policy } = this.model;
+    const model = this.model;
+    const { n, nbr, nbrEdge, policy } = model;
     const keep = this.model.alias.keep;
     const alias = this.model.alias.alias;
     const { counts, headVal, queues } = this;
@@ -281,9 +283,9 @@ export class ChainEngine {
     let waiting = this.waiting;
     try {
       for (let it = 0; it < count; it++) {
-        let x5 = Math.imul(s1, 5);
-        let u = Math.imul((x5 << 7) | (x5 >>> 25), 9) >>> 0;
-        let sh = s1 << 9;
+        const x5 = Math.imul(s1, 5);
+        const u = Math.imul((x5 << 7) | (x5 >>> 25), 9) >>> 0;
+        const sh = s1 << 9;
         s2 ^= s0;
         s3 ^= s1;
         s1 ^= s2;
@@ -294,72 +296,20 @@ export class ChainEngine {
         let k = xf | 0;
         if (xf - k >= keep[k]!) k = alias[k]!;
         arrivals[k]++;
-        const ps = nbrStart[k]!;
-        const pe = nbrStart[k + 1]!;
-        let bp = -1;
-        if (policy === 1) {
-          // longest: most waiting items, ties to the oldest item
-          let bc = 0;
-          let bt = Infinity;
-          for (let p = ps; p < pe; p++) {
-            const j = nbr[p]!;
-            const c = counts[j]!;
-            if (c > bc || (c === bc && c > 0 && headVal[j]! < bt)) {
-              bc = c;
-              bt = headVal[j]!;
-              bp = p;
-            }
-          }
-        } else if (policy === 2) {
-          // priority: lowest rank among non-empty classes, ties to the oldest item
-          let br = 0x7fffffff;
-          let bt = Infinity;
-          for (let p = ps; p < pe; p++) {
-            const j = nbr[p]!;
-            const h = headVal[j]!;
-            if (h === Infinity) continue;
-            const r = rank[j]!;
-            if (r < br || (r === br && h < bt)) {
-              br = r;
-              bt = h;
-              bp = p;
-            }
-          }
-        } else if (policy === 3) {
-          // random: uniform among the non-empty compatible classes
-          let nonEmpty = 0;
-          for (let p = ps; p < pe; p++) if (counts[nbr[p]!]! > 0) nonEmpty++;
-          if (nonEmpty > 0) {
-            let pick = 0;
-            if (nonEmpty > 1) {
-              x5 = Math.imul(s1, 5);
-              u = Math.imul((x5 << 7) | (x5 >>> 25), 9) >>> 0;
-              sh = s1 << 9;
-              s2 ^= s0;
-              s3 ^= s1;
-              s1 ^= s2;
-              s0 ^= s3;
-              s2 ^= sh;
-              s3 = (s3 << 11) | (s3 >>> 21);
-              pick = (u * nonEmpty * TWO_POW_M32) | 0;
-            }
-            for (let p = ps; p < pe; p++) {
-              if (counts[nbr[p]!]! > 0 && pick-- === 0) {
-                bp = p;
-                break;
-              }
-            }
-          }
-        } else {
-          let bt = Infinity;
-          for (let p = ps; p < pe; p++) {
-            const h = headVal[nbr[p]!]!;
-            if (h < bt) {
-              bt = h;
-              bp = p;
-            }
-          }
-        }
+        let bp: number;
+        if (policy === 3) {
+          // random draws from the stream: hand it the state and take it back
+          const rng = this.rng;
+          rng[0] = s0;
+          rng[1] = s1;
+          rng[2] = s2;
+          rng[3] = s3;
+          bp = selectPartner(model, counts, headVal, k, rng);
+          s0 = rng[0]! | 0;
+          s1 = rng[1]! | 0;
+          s2 = rng[2]! | 0;
+          s3 = rng[3]! | 0;
+        } else bp = selectPartner(model, counts, headVal, k, this.rng);
         if (bp < 0) {
           const c = counts[k]!;
           if (c === cap[k]) {

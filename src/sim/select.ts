@@ -7,7 +7,8 @@ import type { SimModel } from './sim-model.js';
  * `headVal` the arrival stamp of each class's oldest live item (Infinity when none). The random
  * policy draws from `rng` only when two or more classes qualify.
  *
- * The patient engine inlines the same rules in its hot loops; this function serves the timed engine.
+ * The timed engine and the patient engine's loop for longest, priority and random use it; the
+ * patient engine's FCFM loops inline the oldest-head rule.
  */
 export function selectPartner(model: SimModel, counts: Int32Array, headVal: Float64Array, k: number, rng: Uint32Array): number {
   const { nbrStart, nbr, rank, policy } = model;
