@@ -21,45 +21,13 @@
  * repetitions, (a) and (b) interleaved so that load from other processes hits both alike.
  */
 import { flipped, scoreFlips } from '../src/design/score-flips.js';
-import { scoreDesign, specModel, type Score, type ScoreSpec } from '../src/design/score.js';
+import { scoreDesign, specModel, type Score } from '../src/design/score.js';
 import { singleChangeEvaluator } from '../src/exact/single-change.js';
-import { seededRandom } from '../src/random.js';
+import { ringWithChords } from './_ring-with-chords.js';
 
 function cpu(): number {
   const u = process.cpuUsage();
   return (u.user + u.system) / 1000;
-}
-
-function caseSpec(n: number, k: number, extra: number, seed: number, perClass: boolean): { spec: ScoreSpec; design: Uint8Array } {
-  const random = seededRandom(seed);
-  const fixed: Array<[number, number]> = [[0, 0]];
-  const used = new Set<number>([0]);
-  const id = (a: number, b: number): number => Math.min(a, b) * n + Math.max(a, b);
-  for (let i = 0; i < n; i++) {
-    const j = (i + 1) % n;
-    fixed.push([Math.min(i, j), Math.max(i, j)]);
-    used.add(id(i, j));
-  }
-  const chord = (): [number, number] => {
-    for (;;) {
-      const a = Math.floor(random() * n);
-      const b = Math.floor(random() * n);
-      if (a === b || used.has(id(a, b))) continue;
-      used.add(id(a, b));
-      return [Math.min(a, b), Math.max(a, b)];
-    }
-  };
-  for (let c = 0; c < extra; c++) fixed.push(chord());
-  const toggles: Array<[number, number]> = [];
-  while (toggles.length < k) toggles.push(chord());
-  const rates = new Array<number>(n).fill(0);
-  for (const [a, b] of [...fixed, ...toggles]) {
-    const mu = 0.3 + random();
-    rates[a]! += mu;
-    rates[b]! += mu;
-  }
-  const spec: ScoreSpec = { ids: Array.from({ length: n }, (_, i) => `r${i}`), rates, fixed, toggles, perClass };
-  return { spec, design: new Uint8Array(k).fill(1) };
 }
 
 function best(f: () => unknown, reps: number): number {
@@ -83,7 +51,7 @@ const only = process.argv[3]; // 'total' or 'per-class': one kind of scoring onl
 for (const perClass of [false, true].filter((x) => !only || only === (x ? 'per-class' : 'total'))) {
   for (const fam of families) {
     for (const n of fam.sizes) {
-      const { spec, design } = caseSpec(n, k, fam.extra(n), 1000 + n, perClass);
+      const { spec, design } = ringWithChords(n, fam.extra(n), k, 1000 + n, perClass);
       const flips = Array.from({ length: k }, (_, j) => j);
       const fresh = (): Score[] => flips.map((j) => scoreDesign(spec, flipped(design, j)));
       const reuse = (): Score[] => scoreFlips(spec, design, flips);

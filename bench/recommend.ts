@@ -23,8 +23,9 @@ import type { DesignProblem, Toggle } from '../src/design/problem.js';
 import { recommend, type Recommendation, type RecommendOptions } from '../src/design/recommend.js';
 import { reuses } from '../src/design/reuse.js';
 import { flipped, scoreFlips } from '../src/design/score-flips.js';
-import { scoreDesign, type ScoreSpec } from '../src/design/score.js';
+import { scoreDesign } from '../src/design/score.js';
 import { seededRandom } from '../src/random.js';
+import { ringWithChords } from './_ring-with-chords.js';
 
 function benchProblem(n: number, candidates: number, seed: number, budgetShare: number): DesignProblem {
   const random = seededRandom(seed);
@@ -119,39 +120,6 @@ async function runCase(name: string): Promise<void> {
   }
 }
 
-/**
- * A ring of n classes with a self-pair at 0, `extra` fixed chords and k paid chords (all on), rates
- * from positive flows on every pair (so the design is stable).
- */
-function ringWithChords(n: number, extra: number, k: number, seed: number, perClass: boolean): { spec: ScoreSpec; design: Uint8Array } {
-  const random = seededRandom(seed);
-  const fixed: Array<[number, number]> = [[0, 0]];
-  const used = new Set<number>([0]);
-  const id = (a: number, b: number): number => Math.min(a, b) * n + Math.max(a, b);
-  for (let i = 0; i < n; i++) {
-    fixed.push([Math.min(i, (i + 1) % n), Math.max(i, (i + 1) % n)]);
-    used.add(id(i, (i + 1) % n));
-  }
-  const chord = (): [number, number] => {
-    for (;;) {
-      const a = Math.floor(random() * n);
-      const b = Math.floor(random() * n);
-      if (a === b || used.has(id(a, b))) continue;
-      used.add(id(a, b));
-      return [Math.min(a, b), Math.max(a, b)];
-    }
-  };
-  for (let c = 0; c < extra; c++) fixed.push(chord());
-  const toggles: Array<[number, number]> = [];
-  while (toggles.length < k) toggles.push(chord());
-  const rates = new Array<number>(n).fill(0);
-  for (const [a, b] of [...fixed, ...toggles]) {
-    const mu = 0.3 + random();
-    rates[a]! += mu;
-    rates[b]! += mu;
-  }
-  return { spec: { ids: Array.from({ length: n }, (_, i) => `r${i}`), rates, fixed, toggles, perClass }, design: new Uint8Array(k).fill(1) };
-}
 
 function penaltyReuse(): void {
   const cpu = (): number => {
