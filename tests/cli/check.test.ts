@@ -5,8 +5,8 @@ import { afterAll, describe, expect, it } from 'vitest';
 import { checkCommand } from '../../src/cli/commands/check.js';
 import { memoryIO } from '../../src/cli/io.js';
 import { InvalidScenarioError, ScenarioFileError } from '../../src/errors.js';
-import { runWithExitCode } from '../../src/cli/exit.js';
 import { enumerate, maskNeighbours, adjacencyMasks, maskRate, type SmallGraph } from '../stability/brute-force.js';
+import { runCommand } from '../helpers/cli.js';
 
 // Invented scenarios (game matchmaking, shift swaps, ride pooling), written into a temp dir.
 const dir = mkdtempSync(join(tmpdir(), 'edgewise-check-'));
@@ -34,9 +34,7 @@ function brute(s: Spec): { g: SmallGraph; ids: string[] } {
 const maskOfIds = (ids: string[], names: string[]): number => names.reduce((m, x) => m | (1 << ids.indexOf(x)), 0);
 
 async function run(file: string, json: boolean) {
-  const io = memoryIO(dir);
-  const code = await runWithExitCode(io, () => checkCommand({ file, json }, io));
-  return { code, out: io.stdout(), err: io.stderr() };
+  return runCommand(checkCommand, { file, json }, dir);
 }
 
 // A matchmaking ladder: a triangle of skill bands plus a solo queue that also plays against itself.

@@ -3,9 +3,8 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { compareCommand, parseBudgets } from '../../src/cli/commands/compare.js';
-import { runWithExitCode } from '../../src/cli/exit.js';
-import { memoryIO } from '../../src/cli/io.js';
 import { COMPARE_CSV_HEADER } from '../../src/report/compare-output.js';
+import { runCommand } from '../helpers/cli.js';
 
 // References (derived by hand; steps below):
 //
@@ -44,9 +43,7 @@ function file(name: string, doc: unknown): string {
   return name;
 }
 async function run(opts: Parameters<typeof compareCommand>[0]) {
-  const io = memoryIO(dir);
-  const code = await runWithExitCode(io, () => compareCommand(opts, io));
-  return { code, out: io.stdout(), err: io.stderr() };
+  return runCommand(compareCommand, opts, dir);
 }
 
 const harmful = file('harmful.json', pitCrews('pit crews, "quiet" night', [0.1, 0.1, 0.4, 0.4]));

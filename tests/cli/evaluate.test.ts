@@ -1,24 +1,19 @@
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { evaluateCommand } from '../../src/cli/commands/evaluate.js';
-import { runWithExitCode } from '../../src/cli/exit.js';
-import { memoryIO } from '../../src/cli/io.js';
 import { compileGraph } from '../../src/model/compile.js';
 import { permutationOracle } from '../helpers/permutation-oracle.js';
 import { isIndependent, neighbourhood, rateOf, toBitGraph } from '../helpers/bitgraph.js';
+import { runCommand, writeScenario } from '../helpers/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'edgewise-evaluate-'));
 function scenarioFile(name: string, doc: unknown): string {
-  const p = join(dir, name);
-  writeFileSync(p, typeof doc === 'string' ? doc : JSON.stringify(doc));
-  return p;
+  return writeScenario(dir, name, doc);
 }
 async function run(opts: Parameters<typeof evaluateCommand>[0]) {
-  const io = memoryIO(dir);
-  const code = await runWithExitCode(io, () => evaluateCommand(opts, io));
-  return { code, out: io.stdout(), err: io.stderr() };
+  return runCommand(evaluateCommand, opts, dir);
 }
 
 // An invented late-night food-delivery batching hub: four pick-up zones, one of which batches with itself.

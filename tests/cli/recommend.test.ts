@@ -5,16 +5,13 @@ import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { recommendCommand } from '../../src/cli/commands/recommend.js';
-import { runWithExitCode } from '../../src/cli/exit.js';
-import { memoryIO } from '../../src/cli/io.js';
+import { runCommand } from '../helpers/cli.js';
 
 const root = join(import.meta.dirname, '..', '..');
 const scenarios = join(root, 'scenarios');
 
 async function run(opts: Record<string, unknown>, cwd = scenarios): Promise<{ code: number; out: string; err: string }> {
-  const io = memoryIO(cwd);
-  const code = await runWithExitCode(io, () => recommendCommand(opts as never, io));
-  return { code, out: io.stdout(), err: io.stderr() };
+  return runCommand(recommendCommand, opts as never, cwd);
 }
 
 describe('edgewise recommend', () => {

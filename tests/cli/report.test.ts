@@ -4,8 +4,7 @@ import { join } from 'node:path';
 import { parseHTML } from 'linkedom';
 import { describe, expect, it } from 'vitest';
 import { reportCommand } from '../../src/cli/commands/report.js';
-import { runWithExitCode } from '../../src/cli/exit.js';
-import { memoryIO } from '../../src/cli/io.js';
+import { runCommand } from '../helpers/cli.js';
 
 // `edgewise report FILE -o report.html`. Reference values derived by hand (tests/cli/compare.test.ts
 // has the steps): K4 minus the edge a–b with rates 0.2, 0.2, 0.4, 0.2 has mean backlog 7/3, and
@@ -25,9 +24,7 @@ writeFileSync(
   }),
 );
 async function run(opts: Parameters<typeof reportCommand>[0]) {
-  const io = memoryIO(dir);
-  const code = await runWithExitCode(io, () => reportCommand(opts, io));
-  return { code, out: io.stdout(), err: io.stderr() };
+  return runCommand(reportCommand, opts, dir);
 }
 
 describe('report command', () => {

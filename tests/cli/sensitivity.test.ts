@@ -1,25 +1,20 @@
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { sensitivityCommand } from '../../src/cli/commands/sensitivity.js';
-import { runWithExitCode } from '../../src/cli/exit.js';
-import { memoryIO } from '../../src/cli/io.js';
 import { k4, k4MinusEdge, K4_IDS, K4_MINUS_AB_PAIRS } from '../helpers/k4-minus-edge.js';
+import { runCommand, writeScenario } from '../helpers/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'edgewise-sensitivity-'));
 const repo = new URL('../../', import.meta.url).pathname;
 
 function scenarioFile(name: string, doc: unknown): string {
-  const p = join(dir, name);
-  writeFileSync(p, JSON.stringify(doc));
-  return p;
+  return writeScenario(dir, name, doc);
 }
 
 async function run(opts: Parameters<typeof sensitivityCommand>[0], cwd = dir) {
-  const io = memoryIO(cwd);
-  const code = await runWithExitCode(io, () => sensitivityCommand(opts, io));
-  return { code, out: io.stdout(), err: io.stderr() };
+  return runCommand(sensitivityCommand, opts, cwd);
 }
 
 // The hand-derived family (tests/helpers/k4-minus-edge.ts), dressed as an invented shift-swap board:

@@ -1,19 +1,16 @@
-import { mkdtempSync, writeFileSync } from 'node:fs';
+import { mkdtempSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { simulateCommand, type SimulateOptions } from '../../src/cli/commands/simulate.js';
-import { runWithExitCode } from '../../src/cli/exit.js';
-import { memoryIO } from '../../src/cli/io.js';
 import { compileModel } from '../../src/model/compile.js';
 import { parseScenario } from '../../src/model/validate.js';
 import { permutationOracle } from '../helpers/permutation-oracle.js';
+import { runCommand, writeScenario } from '../helpers/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'edgewise-simulate-'));
 function scenarioFile(name: string, doc: unknown): string {
-  const path = join(dir, name);
-  writeFileSync(path, JSON.stringify(doc, null, 2));
-  return path;
+  return writeScenario(dir, name, doc);
 }
 
 // invented: a matchmaking ladder where neighbouring tiers play each other and the top tier plays itself
@@ -50,9 +47,7 @@ const impatientFile = scenarioFile('impatient.json', {
 const quick = { arrivals: 20_000, replications: 4, seed: 2, jobs: 1 } as const;
 
 async function run(opts: Partial<SimulateOptions> & { file: string }) {
-  const io = memoryIO(dir);
-  const code = await runWithExitCode(io, () => simulateCommand({ ...quick, ...opts }, io));
-  return { code, out: io.stdout(), err: io.stderr() };
+  return runCommand(simulateCommand, { ...quick, ...opts }, dir);
 }
 
 describe('edgewise simulate --json', () => {
