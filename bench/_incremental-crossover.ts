@@ -20,8 +20,8 @@
  * n is chosen for about 500 to 1M independent sets. CPU time of the process, best of a few
  * repetitions, (a) and (b) interleaved so that load from other processes hits both alike.
  */
-import { flipped, scoreFlips } from '../src/design/score-flips.js';
-import { scoreDesign, specModel, type Score } from '../src/design/score.js';
+import { flipped, scoreFlips } from '../src/design/scoring/score-flips.js';
+import { scoreDesign, specModel, type Score } from '../src/design/scoring/score.js';
 import { singleChangeEvaluator } from '../src/exact/single-change.js';
 import { ringWithChords } from './_ring-with-chords.js';
 

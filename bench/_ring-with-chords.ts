@@ -1,6 +1,6 @@
 // Shared by bench/recommend.ts and bench/_incremental-crossover.ts (files starting with "_" are
 // helpers, not run by bench/run.ts).
-import type { ScoreSpec } from '../src/design/score.js';
+import type { ScoreSpec } from '../src/design/scoring/score.js';
 import { seededRandom } from '../src/random.js';
 
 /**

@@ -19,11 +19,11 @@
 import { existsSync } from 'node:fs';
 import { join } from 'node:path';
 import { pathToFileURL } from 'node:url';
-import type { DesignProblem, Toggle } from '../src/design/problem.js';
-import { recommend, type Recommendation, type RecommendOptions } from '../src/design/recommend.js';
-import { reuses } from '../src/design/reuse.js';
-import { flipped, scoreFlips } from '../src/design/score-flips.js';
-import { scoreDesign } from '../src/design/score.js';
+import type { DesignProblem, Toggle } from '../src/design/space/problem.js';
+import { recommend, type Recommendation, type RecommendOptions } from '../src/design/search/recommend.js';
+import { reuses } from '../src/design/scoring/reuse.js';
+import { flipped, scoreFlips } from '../src/design/scoring/score-flips.js';
+import { scoreDesign } from '../src/design/scoring/score.js';
 import { seededRandom } from '../src/random.js';
 import { ringWithChords } from './_ring-with-chords.js';
 

@@ -11,7 +11,7 @@
  */
 import { evaluateExact } from '../src/exact/evaluate.js';
 import { singleChangeEvaluator } from '../src/exact/single-change.js';
-import { sensitivity } from '../src/design/sensitivity.js';
+import { sensitivity } from '../src/design/sensitivity/sensitivity.js';
 import { compileGraph, edgePairs, type CompiledModel } from '../src/model/compile.js';
 import { cyclePairs, randomPairs, randomRegularPairs } from '../src/model/generators.js';
 import { validateScenario } from '../src/model/validate.js';

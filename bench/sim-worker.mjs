@@ -3,4 +3,4 @@
 import { register } from 'tsx/esm/api';
 
 register();
-await import('../src/sim/worker.ts');
+await import('../src/workers/worker.ts');

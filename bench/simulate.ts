@@ -79,7 +79,7 @@ export async function runSimulateBench(log: (line: string) => void = (l) => cons
   log('');
 
   // Prefer the compiled worker (npm install builds dist/); fall back to the TypeScript sources via tsx.
-  const compiled = new URL('../dist/sim/worker.js', import.meta.url);
+  const compiled = new URL('../dist/workers/worker.js', import.meta.url);
   const fromDist = existsSync(fileURLToPath(compiled));
   const workerUrl = fromDist ? compiled : new URL('./sim-worker.mjs', import.meta.url);
   const reps = Math.max(4, 2 * cores);
@@ -95,7 +95,7 @@ export async function runSimulateBench(log: (line: string) => void = (l) => cons
     const speedup = seconds[0]! / s;
     log(`  jobs ${String(jobs).padEnd(3)} ${s.toFixed(2)} s  ${fmtRate(total / s)}  speed-up ×${speedup.toFixed(2)}`);
   }
-  log(`  (workers run ${fromDist ? 'the compiled dist/sim/worker.js' : 'the TypeScript sources under tsx'}; their start-up is included; other load on the machine lowers the figures)`);
+  log(`  (workers run ${fromDist ? 'the compiled dist/workers/worker.js' : 'the TypeScript sources under tsx'}; their start-up is included; other load on the machine lowers the figures)`);
 }
 
 if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {

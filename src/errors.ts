@@ -94,6 +94,12 @@ export class SolverError extends EdgewiseError {
   override readonly exitCode = 5;
 }
 
+/**
+ * A figure came out NaN or infinite where it must be a number, or another invariant broke: a bug
+ * (exit 1, "please report"), never a null figure with exit 0.
+ */
+export class InternalError extends EdgewiseError {}
+
 /** No design satisfies the constraints within the budget (exit 3). */
 export class InfeasibleDesignError extends EdgewiseError {
   override readonly exitCode = 3;

@@ -6,8 +6,8 @@
 import { describeCertificate, EdgewiseError, UnstableDesignError } from '../errors.js';
 import type { CompiledModel } from '../model/compile.js';
 import { pairKey, type Scenario } from '../model/scenario.js';
-import { sensitivity, type SensitivityEntry } from '../design/sensitivity.js';
-import { sweep, type SweepVariantSpec } from '../design/sweep.js';
+import { sensitivity, type SensitivityEntry } from '../design/sensitivity/sensitivity.js';
+import { sweep, type SweepVariantSpec } from '../design/sweep/sweep.js';
 import { explainEntry } from './sensitivity-record.js';
 import type { DesignView, Pair, SensitivityRow, SweepView } from './report-data.js';
 

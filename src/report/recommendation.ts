@@ -3,11 +3,11 @@
  * its CSV form. Nothing here depends on how the search ran (no timings, no thread counts), so the
  * same inputs always give the same bytes.
  */
-import type { DesignProblem } from '../design/problem.js';
-import type { DesignDetails, Recommendation } from '../design/recommend.js';
-import type { MilpDesign } from '../design/milp.js';
-import { designChanges } from '../design/problem.js';
-import type { ObjectiveName } from '../design/objective.js';
+import type { DesignProblem } from '../design/space/problem.js';
+import type { DesignDetails, Recommendation } from '../design/search/recommend.js';
+import type { MilpDesign } from '../design/search/milp.js';
+import { designChanges } from '../design/space/problem.js';
+import type { ObjectiveName } from '../design/space/objective.js';
 
 export type IdPair = readonly [string, string];
 

@@ -3,8 +3,8 @@
  * design and the pairs it drops (forced removals of `forbidden` pairs included, since every design
  * drops them), with its exact figures under today's rates.
  */
-import type { DesignProblem } from '../design/problem.js';
-import type { DesignDetails, Recommendation } from '../design/recommend.js';
+import type { DesignProblem } from '../design/space/problem.js';
+import type { DesignDetails, Recommendation } from '../design/search/recommend.js';
 import { changePairs } from './recommendation.js';
 import type { Pair } from './report-data.js';
 

@@ -3,7 +3,7 @@
  * design layer's results; rendered by report-html.ts). Keeping this shape separate means the page
  * can be tested on hand-made data, and the numbers can be tested without parsing HTML.
  */
-import type { GraphPicture } from './graph-svg.js';
+import type { GraphPicture } from '../html/graph-svg.js';
 
 export type Pair = readonly [string, string];
 

@@ -5,8 +5,8 @@
  */
 import { describeCertificate, type InstabilityCertificate } from '../errors.js';
 import type { CompiledModel } from '../model/compile.js';
-import { relationToSet, type Bottleneck } from '../design/bottleneck-relation.js';
-import type { SensitivityEntry, SensitivityResult } from '../design/sensitivity.js';
+import { relationToSet, type Bottleneck } from '../design/sensitivity/bottleneck-relation.js';
+import type { SensitivityEntry, SensitivityResult } from '../design/sensitivity/sensitivity.js';
 
 const r12 = (x: number): number | null => (Number.isFinite(x) ? Number(x.toPrecision(12)) : null);
 const short = (x: number): string => (Number.isFinite(x) ? String(Number(x.toPrecision(4))) : x > 0 ? '∞' : '—');

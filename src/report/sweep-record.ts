@@ -3,8 +3,8 @@
  * CSV form (one row per step and design).
  */
 import type { CompiledModel } from '../model/compile.js';
-import { GROWTH_LIMIT_METHOD } from '../design/growth-limit.js';
-import type { SweepResult } from '../design/sweep.js';
+import { GROWTH_LIMIT_METHOD } from '../design/sweep/growth-limit.js';
+import type { SweepResult } from '../design/sweep/sweep.js';
 
 const r12 = (x: number): number | null => (Number.isFinite(x) ? Number(x.toPrecision(12)) : null);
 

@@ -6,7 +6,7 @@ import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { parseScenario } from '../../src/model/validate.js';
 import { gatherReport } from '../../src/report/gather-report.js';
-import { renderReport } from '../../src/report/report-html.js';
+import { renderReport } from '../../src/html/report-html.js';
 
 // Opens a generated report in headless Chromium (Debian's package at /usr/bin/chromium, driven by
 // playwright-core; no browser is ever downloaded) and checks what a reader would see: every chart

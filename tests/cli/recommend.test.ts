@@ -113,12 +113,12 @@ describe('edgewise recommend from the build: --jobs 1 and --jobs 2 give identica
   beforeAll(() => {
     // Errors in files of other work in progress may make tsc exit non-zero; it still emits.
     spawnSync(process.execPath, [join(root, 'node_modules', 'typescript', 'bin', 'tsc'), '-p', 'tsconfig.build.json'], { cwd: root, encoding: 'utf8' });
-    built = existsSync(join(root, 'dist', 'cli', 'main.js')) && existsSync(join(root, 'dist', 'design', 'score-worker.js'));
+    built = existsSync(join(root, 'dist', 'cli', 'main.js')) && existsSync(join(root, 'dist', 'workers', 'worker.js'));
   });
 
   it('runs on worker threads from dist and prints the same JSON whatever --jobs', async () => {
     expect(built).toBe(true);
-    const pool = await import(pathToFileURL(join(root, 'dist', 'design', 'pool.js')).href);
+    const pool = await import(pathToFileURL(join(root, 'dist', 'design', 'scoring', 'scorer.js')).href);
     const scorer = pool.createScorer({ ids: ['a', 'b', 'c'], rates: [1, 1, 1], fixed: [[0, 1], [1, 2], [0, 2]], toggles: [[0, 0]], perClass: false }, 2);
     expect(scorer.mode).toBe('workers');
     // Triangle with unit rates, derived by hand from the product form ("A product form for the

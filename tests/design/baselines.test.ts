@@ -1,9 +1,9 @@
 import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
-import { allCandidatesBaseline, longChainBaseline, twoPerClassBaseline } from '../../src/design/baselines.js';
-import { designProblem, type DesignProblem, type Toggle } from '../../src/design/problem.js';
-import { recommend } from '../../src/design/recommend.js';
+import { allCandidatesBaseline, longChainBaseline, twoPerClassBaseline } from '../../src/design/search/baselines.js';
+import { designProblem, type DesignProblem, type Toggle } from '../../src/design/space/problem.js';
+import { recommend } from '../../src/design/search/recommend.js';
 import { readDesignFields } from '../../src/model/design-fields.js';
 import { parseScenario } from '../../src/model/validate.js';
 import { compileGraph } from '../../src/model/compile.js';

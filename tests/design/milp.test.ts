@@ -1,7 +1,7 @@
 import * as jslpModule from 'javascript-lp-solver';
 import { describe, expect, it } from 'vitest';
-import { cheapestStableDesign, flowMilp, maxMinFlowDesign, budgetLadder } from '../../src/design/milp.js';
-import type { DesignProblem, Toggle } from '../../src/design/problem.js';
+import { cheapestStableDesign, flowMilp, maxMinFlowDesign, budgetLadder } from '../../src/design/search/milp.js';
+import type { DesignProblem, Toggle } from '../../src/design/space/problem.js';
 import { solveWithHighs } from '../../src/solvers/highs.js';
 import { bruteStability } from '../helpers/brute-stability.js';
 import { bruteCost, designModel } from '../helpers/design-brute.js';

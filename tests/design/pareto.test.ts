@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { dominates, frontValueAt, paretoFront, paretoLayers, type ParetoPoint } from '../../src/design/pareto.js';
+import { dominates, frontValueAt, paretoFront, paretoLayers, type ParetoPoint } from '../../src/design/space/pareto.js';
 import { Rng } from '../helpers/random.js';
 
 // The archive against the definition (quadratic check): a point is on the front when no other point

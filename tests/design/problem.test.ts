@@ -11,7 +11,7 @@ import {
   designPairs,
   designProblem,
   roundCost,
-} from '../../src/design/problem.js';
+} from '../../src/design/space/problem.js';
 
 // Costs and constraints of designs on a hand-written scenario; every expected value is derived by
 // hand in the comments from the rule "cost = Σ costs of added candidates − Σ savings of dropped

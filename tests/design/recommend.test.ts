@@ -1,6 +1,6 @@
 import { afterAll, describe, expect, it } from 'vitest';
-import { recommend, type Recommendation } from '../../src/design/recommend.js';
-import type { DesignProblem } from '../../src/design/problem.js';
+import { recommend, type Recommendation } from '../../src/design/search/recommend.js';
+import type { DesignProblem } from '../../src/design/space/problem.js';
 import { InfeasibleDesignError } from '../../src/errors.js';
 import { evaluateExact } from '../../src/exact/evaluate.js';
 import { bruteStability } from '../helpers/brute-stability.js';

@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { TooLargeError } from '../../src/errors.js';
-import { createScorer, inThreadScorer } from '../../src/design/pool.js';
-import { flipped, scoreFlips } from '../../src/design/score-flips.js';
-import { scoreDesign, specModel, type Score, type ScoreSpec } from '../../src/design/score.js';
-import type { ScoreTask } from '../../src/design/score-task.js';
-import type { DesignProblem } from '../../src/design/problem.js';
+import { createScorer, inThreadScorer } from '../../src/design/scoring/scorer.js';
+import { flipped, scoreFlips } from '../../src/design/scoring/score-flips.js';
+import { scoreDesign, specModel, type Score, type ScoreSpec } from '../../src/design/scoring/score.js';
+import type { ScoreTask } from '../../src/design/scoring/score-task.js';
+import type { DesignProblem } from '../../src/design/space/problem.js';
 import { bruteStability } from '../helpers/brute-stability.js';
 import { randomProblem } from '../helpers/design-problems.js';
 import { Rng } from '../helpers/random.js';

@@ -1,6 +1,6 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { sensitivity, type SensitivityEntry } from '../../src/design/sensitivity.js';
+import { sensitivity, type SensitivityEntry } from '../../src/design/sensitivity/sensitivity.js';
 import { UnstableDesignError } from '../../src/errors.js';
 import { evaluateExact } from '../../src/exact/evaluate.js';
 import { compileGraph, compileModel, edgePairs, type CompiledModel } from '../../src/model/compile.js';

@@ -1,6 +1,6 @@
 import { describe, expect, it } from 'vitest';
-import { growthLimit } from '../../src/design/growth-limit.js';
-import { sweep } from '../../src/design/sweep.js';
+import { growthLimit } from '../../src/design/sweep/growth-limit.js';
+import { sweep } from '../../src/design/sweep/sweep.js';
 import { UnstableDesignError, UsageError } from '../../src/errors.js';
 import { evaluateExact } from '../../src/exact/evaluate.js';
 import { compileGraph, withRates, type CompiledModel } from '../../src/model/compile.js';

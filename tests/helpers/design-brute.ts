@@ -1,6 +1,6 @@
 import { compileGraph, type CompiledModel } from '../../src/model/compile.js';
 import { evaluateExact } from '../../src/exact/evaluate.js';
-import type { DesignProblem } from '../../src/design/problem.js';
+import type { DesignProblem } from '../../src/design/space/problem.js';
 import { bruteStability } from './brute-stability.js';
 
 /**

@@ -1,4 +1,4 @@
-import type { DesignProblem, Toggle } from '../../src/design/problem.js';
+import type { DesignProblem, Toggle } from '../../src/design/space/problem.js';
 import { Rng } from './random.js';
 
 /** Options of a random design problem (all class indices, no scenario file). */

@@ -1,8 +1,8 @@
 import { parseHTML } from 'linkedom';
 import { describe, expect, it } from 'vitest';
-import { paretoChart } from '../../src/report/pareto-chart.js';
-import { sweepChart } from '../../src/report/sweep-chart.js';
-import { waitChart } from '../../src/report/wait-chart.js';
+import { paretoChart } from '../../src/html/pareto-chart.js';
+import { sweepChart } from '../../src/html/sweep-chart.js';
+import { waitChart } from '../../src/html/wait-chart.js';
 
 // The charts are rendered by Observable Plot (npm) in a linkedom DOM and read back with linkedom.
 // Checks: every chart is an SVG with a viewBox and size, axis labels name the units, and the marks

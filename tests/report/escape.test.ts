@@ -1,6 +1,6 @@
 import { parseHTML } from 'linkedom';
 import { describe, expect, it } from 'vitest';
-import { escapeHtml, html, raw } from '../../src/report/escape.js';
+import { escapeHtml, html, raw } from '../../src/html/escape.js';
 
 // Oracle: linkedom, a general-purpose HTML parser (npm), reads our escaped markup back; the text and
 // attribute values it recovers must equal the original strings exactly.

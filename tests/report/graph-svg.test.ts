@@ -1,7 +1,7 @@
 import { parseHTML } from 'linkedom';
 import { describe, expect, it } from 'vitest';
-import { graphSvg, type GraphPicture } from '../../src/report/graph-svg.js';
-import { DASH, SERIES } from '../../src/report/palette.js';
+import { graphSvg, type GraphPicture } from '../../src/html/graph-svg.js';
+import { DASH, SERIES } from '../../src/html/palette.js';
 
 // The drawing is read back with linkedom (a general-purpose HTML/SVG parser from npm) and checked
 // against the picture's definition: one disc per class with area proportional to the rate, one line

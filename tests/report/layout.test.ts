@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { graphDistances, layoutGraph, stress, stressPositions } from '../../src/report/layout.js';
+import { graphDistances, layoutGraph, stress, stressPositions } from '../../src/html/layout.js';
 import { Rng } from '../helpers/random.js';
 
 // References: shortest-path distances of paths and cycles, derived by hand (|i − j| on a path,

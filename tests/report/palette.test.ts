@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { DASH, INK, MUTED, SERIES, SYMBOL, type SeriesRole } from '../../src/report/palette.js';
+import { DASH, INK, MUTED, SERIES, SYMBOL, type SeriesRole } from '../../src/html/palette.js';
 
 // References:
 // - relative luminance and contrast ratio: "Web Content Accessibility Guidelines (WCAG) 2.1", W3C

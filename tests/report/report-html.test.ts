@@ -7,7 +7,7 @@ import { parseScenario } from '../../src/model/validate.js';
 import { pairKey, type Scenario } from '../../src/model/scenario.js';
 import { gatherReport } from '../../src/report/gather-report.js';
 import type { ReportData } from '../../src/report/report-data.js';
-import { renderReport } from '../../src/report/report-html.js';
+import { renderReport } from '../../src/html/report-html.js';
 import { permutationOracle } from '../helpers/permutation-oracle.js';
 
 // The whole report on a shipped scenario and on a hostile one. Numbers are checked against the

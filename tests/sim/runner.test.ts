@@ -11,7 +11,7 @@ import { buildSimModel } from '../../src/sim/sim-model.js';
 
 /**
  * Replications run in worker threads only from compiled JavaScript (the worker script is
- * dist/sim/worker.js). These tests compile the sources once into .test-output/dist-sim, exactly as
+ * dist/workers/worker.js). These tests compile the sources once into .test-output/dist-sim, exactly as
  * `npm run build` does, and run that build: its runner, and its CLI in a child process.
  */
 const root = resolve(import.meta.dirname, '../..');
@@ -20,7 +20,7 @@ const out = join(root, '.test-output', 'dist-sim');
 const plan = { arrivals: 40_000, warmup: 4_000, maxWaiting: 1e6, timed: false };
 const model = compileGraph(['red', 'green', 'blue', 'gold'], [1, 1.5, 2, 0.8], [[0, 1], [1, 2], [0, 2], [2, 3], [3, 3]]);
 
-async function collect(run: (sink: (r: ReplicationRecord) => void) => Promise<void>): Promise<ReplicationRecord[]> {
+async function collect(run: (sink: (r: ReplicationRecord) => void) => Promise<unknown>): Promise<ReplicationRecord[]> {
   const got: ReplicationRecord[] = [];
   await run((r) => got.push(r));
   return got.sort((a, b) => a.index - b.index);
@@ -41,7 +41,7 @@ describe('compiled build: worker threads', () => {
     mkdirSync(join(root, '.test-output'), { recursive: true });
     // type errors elsewhere in the tree do not stop tsc from emitting; the files below must exist
     spawnSync(process.execPath, [join(root, 'node_modules/typescript/bin/tsc'), '-p', 'tsconfig.build.json', '--outDir', out], { cwd: root, encoding: 'utf8' });
-    for (const f of ['cli/main.js', 'cli/commands/simulate.js', 'sim/worker.js', 'sim/runner.js', 'sim/sim-model.js', 'model/compile.js']) {
+    for (const f of ['cli/main.js', 'cli/commands/simulate.js', 'workers/worker.js', 'sim/runner.js', 'sim/sim-model.js', 'model/compile.js']) {
       expect(existsSync(join(out, f)), `${f} was not built`).toBe(true);
     }
   });

@@ -1,9 +1,9 @@
 import cliProgress from 'cli-progress';
 import { UsageError } from '../../errors.js';
 import { readDesignFields } from '../../model/design-fields.js';
-import { designProblem } from '../../design/problem.js';
-import { OBJECTIVES, objectiveLabel, type ObjectiveName } from '../../design/objective.js';
-import { recommend, type RecommendProgress } from '../../design/recommend.js';
+import { designProblem } from '../../design/space/problem.js';
+import { OBJECTIVES, objectiveLabel, type ObjectiveName } from '../../design/space/objective.js';
+import { recommend, type RecommendProgress } from '../../design/search/recommend.js';
 import { recommendationCsv, recommendationRecord, type IdPair, type RecommendationRecord } from '../../report/recommendation.js';
 import { loadScenario } from '../load.js';
 import { num, pct, table } from '../format.js';

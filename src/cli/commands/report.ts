@@ -2,7 +2,7 @@ import { writeFileSync } from 'node:fs';
 import { resolve } from 'node:path';
 import { UsageError } from '../../errors.js';
 import { gatherReport } from '../../report/gather-report.js';
-import { renderReport } from '../../report/report-html.js';
+import { renderReport } from '../../html/report-html.js';
 import type { CommandIO } from '../io.js';
 import { loadScenario } from '../load.js';
 

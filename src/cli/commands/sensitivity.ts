@@ -1,7 +1,7 @@
 import { describeCertificate } from '../../errors.js';
 import { compileModel, type CompiledModel } from '../../model/compile.js';
-import type { SensitivityEntry, SensitivityResult } from '../../design/sensitivity.js';
-import { sensitivity } from '../../design/sensitivity.js';
+import type { SensitivityEntry, SensitivityResult } from '../../design/sensitivity/sensitivity.js';
+import { sensitivity } from '../../design/sensitivity/sensitivity.js';
 import { sensitivityRecord } from '../../report/sensitivity-record.js';
 import { num, table } from '../format.js';
 import type { CommandIO } from '../io.js';

@@ -1,7 +1,7 @@
 import { UsageError } from '../../errors.js';
 import { compileModel, type CompiledModel } from '../../model/compile.js';
-import { sweep, type SweepResult, type SweepVariantSpec } from '../../design/sweep.js';
-import { GROWTH_LIMIT_METHOD } from '../../design/growth-limit.js';
+import { sweep, type SweepResult, type SweepVariantSpec } from '../../design/sweep/sweep.js';
+import { GROWTH_LIMIT_METHOD } from '../../design/sweep/growth-limit.js';
 import { CROSSOVER_METHOD, sweepCsv, sweepRecord } from '../../report/sweep-record.js';
 import { num, pct, table } from '../format.js';
 import type { CommandIO } from '../io.js';

@@ -4,4 +4,4 @@
 import { register } from 'tsx/esm/api';
 
 register();
-await import('../../../src/design/score-worker.ts');
+await import('../../../src/workers/worker.ts');

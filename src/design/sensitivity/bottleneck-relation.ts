@@ -12,8 +12,8 @@
  * The prediction is a heavy-traffic statement about the base design's bottleneck; the exact verdict
  * always comes from the exact evaluation and is reported beside it, never replaced.
  */
-import type { CompiledModel } from '../model/compile.js';
-import type { StabilityReport } from '../stability/report.js';
+import type { CompiledModel } from '../../model/compile.js';
+import type { StabilityReport } from '../../stability/report.js';
 
 /** A bottleneck set of the base design (class indices). */
 export interface Bottleneck {

@@ -6,7 +6,7 @@
  */
 import { designKey, type DesignProblem } from './problem.js';
 import { lower } from './objective.js';
-import type { DesignRecord, Origin } from './evaluator.js';
+import type { DesignRecord, Origin } from '../scoring/evaluator.js';
 
 /** What the penalty needs to know about a scored design. */
 export interface PenaltyView {

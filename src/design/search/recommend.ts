@@ -13,21 +13,21 @@
  *
  * Indices only: ids are attached in src/report/recommendation.ts.
  */
-import { InfeasibleDesignError, UsageError } from '../errors.js';
-import { compileGraph } from '../model/compile.js';
-import { evaluateExact } from '../exact/evaluate.js';
-import { checkStability } from '../stability/check.js';
-import { seededRandom } from '../random.js';
+import { InfeasibleDesignError, UsageError } from '../../errors.js';
+import { compileGraph } from '../../model/compile.js';
+import { evaluateExact } from '../../exact/evaluate.js';
+import { checkStability } from '../../stability/check.js';
+import { seededRandom } from '../../random.js';
 import { baselines as buildBaselines, type BaselineName } from './baselines.js';
-import { DesignEvaluator, scoreSpecOf, type DesignRecord } from './evaluator.js';
+import { DesignEvaluator, scoreSpecOf, type DesignRecord } from '../scoring/evaluator.js';
 import { exhaustiveSearch, MAX_EXHAUSTIVE_TOGGLES } from './exhaustive.js';
 import { paretoLocalSearch } from './local-search.js';
 import { budgetLadder, cheapestStableDesign, maxMinFlowDesign, type MilpDesign } from './milp.js';
-import { objectiveValue, type ObjectiveName } from './objective.js';
-import { frontValueAt } from './pareto.js';
-import { penaltyBatch, penaltyVerdict } from './penalty.js';
-import { createScorer, workerScriptUrl } from './pool.js';
-import type { ReuseMode } from './reuse.js';
+import { objectiveValue, type ObjectiveName } from '../space/objective.js';
+import { frontValueAt } from '../space/pareto.js';
+import { penaltyBatch, penaltyVerdict } from '../space/penalty.js';
+import { createScorer, workerScriptUrl } from '../scoring/scorer.js';
+import type { ReuseMode } from '../scoring/reuse.js';
 import {
   degreesAllowed,
   designChanges,
@@ -36,7 +36,7 @@ import {
   designPairs,
   withinBudget,
   type DesignProblem,
-} from './problem.js';
+} from '../space/problem.js';
 
 export interface RecommendProgress {
   readonly phase: 'milp' | 'search' | 'exhaustive' | 'details';

@@ -12,8 +12,8 @@
  * Σ costs of added candidates − Σ savings of dropped compatibilities, rounded to 1e-9 so that equal
  * sums compare equal.
  */
-import { pairKey, type Scenario } from '../model/scenario.js';
-import type { DesignFields } from '../model/design-fields.js';
+import { pairKey, type Scenario } from '../../model/scenario.js';
+import type { DesignFields } from '../../model/design-fields.js';
 
 export type ToggleKind = 'candidate' | 'removable';
 

@@ -6,13 +6,13 @@
  * are recomputed), flagged, explained by the base design's bottleneck, and ranked by benefit per unit
  * of money (change-ranking.ts).
  */
-import type { InstabilityCertificate } from '../errors.js';
-import { EdgewiseError, UnstableDesignError } from '../errors.js';
-import { compileGraph, edgePairs, findEdge, type CompiledModel } from '../model/compile.js';
-import type { Scenario } from '../model/scenario.js';
-import { singleChangeEvaluator, type ChangeResult } from '../exact/single-change.js';
-import { checkStability } from '../stability/check.js';
-import { certificateWithIds } from '../stability/certificate.js';
+import type { InstabilityCertificate } from '../../errors.js';
+import { EdgewiseError, UnstableDesignError } from '../../errors.js';
+import { compileGraph, edgePairs, findEdge, type CompiledModel } from '../../model/compile.js';
+import type { Scenario } from '../../model/scenario.js';
+import { singleChangeEvaluator, type ChangeResult } from '../../exact/single-change.js';
+import { checkStability } from '../../stability/check.js';
+import { certificateWithIds } from '../../stability/certificate.js';
 import { bottlenecksOf, predicted, relationTo, type Bottleneck, type BottleneckRelation } from './bottleneck-relation.js';
 import { compareChanges, perUnit } from './change-ranking.js';
 

@@ -24,7 +24,7 @@
  *   is switched on (a removable pair costs its forgone saving, a candidate its cost), ties to the
  *   partner with fewer compatibilities, then to class order.
  */
-import { degrees, type DesignProblem } from './problem.js';
+import { degrees, type DesignProblem } from '../space/problem.js';
 
 export type BaselineName = 'today' | 'all candidates' | 'long chain' | 'two per class';
 

@@ -3,10 +3,10 @@
  * is scored, and the Pareto set is taken over all admissible ones, with the same archive rule and
  * flexibility penalty as the local search. Certain, and affordable up to about 20 toggles.
  */
-import { UsageError } from '../errors.js';
-import { admissibleBeforeEvaluation } from './problem.js';
-import type { DesignEvaluator, DesignRecord } from './evaluator.js';
-import { paretoFront } from './pareto.js';
+import { UsageError } from '../../errors.js';
+import { admissibleBeforeEvaluation } from '../space/problem.js';
+import type { DesignEvaluator, DesignRecord } from '../scoring/evaluator.js';
+import { paretoFront } from '../space/pareto.js';
 import { SearchState } from './local-search.js';
 
 /** Largest number of toggles `--exhaustive` accepts. */

@@ -19,7 +19,7 @@
  * Results do not depend on the choice beyond 1e-10 relative (the single-change evaluator's accuracy):
  * verdicts, counts and refusals are the same (score-flips.ts).
  */
-import { DEFAULT_CHANGE_MAX_SETS } from '../exact/single-change.js';
+import { DEFAULT_CHANGE_MAX_SETS } from '../../exact/single-change.js';
 
 export type ReuseMode = 'auto' | 'always' | 'never';
 

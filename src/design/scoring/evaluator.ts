@@ -9,10 +9,10 @@
  * depends on timing or on the number of workers, and it changes no verdict or count and no figure
  * beyond 1e-10 relative.
  */
-import type { DesignProblem } from './problem.js';
-import { admissibleBeforeEvaluation, changeCount, designCost, designKey } from './problem.js';
-import { needsPerClass, objectiveValue, type ObjectiveName } from './objective.js';
-import type { Scorer } from './pool.js';
+import type { DesignProblem } from '../space/problem.js';
+import { admissibleBeforeEvaluation, changeCount, designCost, designKey } from '../space/problem.js';
+import { needsPerClass, objectiveValue, type ObjectiveName } from '../space/objective.js';
+import type { Scorer } from './scorer.js';
 import { reuses, type ReuseMode } from './reuse.js';
 import type { Score, ScoreSpec } from './score.js';
 import type { ScoreTask } from './score-task.js';

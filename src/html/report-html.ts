@@ -6,11 +6,11 @@ import { html, raw, type Markup } from './escape.js';
 import { graphSvg } from './graph-svg.js';
 import { paretoChart } from './pareto-chart.js';
 import { REPORT_CSS } from './report-css.js';
-import type { DesignView, Pair, ReportData, SensitivityRow } from './report-data.js';
+import type { DesignView, Pair, ReportData, SensitivityRow } from '../report/report-data.js';
 import { sweepChart } from './sweep-chart.js';
-import { namerOf, pairWords, rowAdvice, worstCase, type Namer } from './verdicts.js';
+import { namerOf, pairWords, rowAdvice, worstCase, type Namer } from '../report/verdicts.js';
 import { waitChart } from './wait-chart.js';
-import { fmt, listWords, plural, signed } from './units.js';
+import { fmt, listWords, plural, signed } from '../report/units.js';
 
 export interface ReportMeta {
   /** Shown in the footer, e.g. "edgewise 0.1.0". */

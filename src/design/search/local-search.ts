@@ -20,10 +20,10 @@
  * changes, key; neighbours by toggle index) and scored as one batch whose results come back in that
  * order, so the search never depends on which worker finishes first.
  */
-import { admissibleBeforeEvaluation, designKey, type DesignProblem } from './problem.js';
-import type { DesignEvaluator, DesignRecord, Origin } from './evaluator.js';
-import { comparePoints, paretoFront, paretoLayers } from './pareto.js';
-import { penaltyVerdict } from './penalty.js';
+import { admissibleBeforeEvaluation, designKey, type DesignProblem } from '../space/problem.js';
+import type { DesignEvaluator, DesignRecord, Origin } from '../scoring/evaluator.js';
+import { comparePoints, paretoFront, paretoLayers } from '../space/pareto.js';
+import { penaltyVerdict } from '../space/penalty.js';
 
 export interface SearchOptions {
   /** Pareto layers expanded (default 2). */

@@ -15,12 +15,12 @@
  * headroom (e_k), hence its own LP. Solved with javascript-lp-solver; the answer is checked against
  * the constraints by the adapter.
  */
-import { SolverError } from '../errors.js';
-import type { CompiledModel } from '../model/compile.js';
-import { components } from '../model/components.js';
-import type { LinearProgram, LpConstraint, LpVariable } from '../solvers/lp.js';
-import { solveWithJsLp } from '../solvers/jslp.js';
-import { componentEdges, incidenceRows } from '../stability/programs.js';
+import { SolverError } from '../../errors.js';
+import type { CompiledModel } from '../../model/compile.js';
+import { components } from '../../model/components.js';
+import type { LinearProgram, LpConstraint, LpVariable } from '../../solvers/lp.js';
+import { solveWithJsLp } from '../../solvers/jslp.js';
+import { componentEdges, incidenceRows } from '../../stability/programs.js';
 
 /** How the limit was found (for outputs that must say so). */
 export const GROWTH_LIMIT_METHOD = 'edge-flow LP along the growth direction (javascript-lp-solver, answer checked)';

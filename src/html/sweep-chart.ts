@@ -6,7 +6,7 @@
 import { html, raw, type Markup } from './escape.js';
 import { DASH, SERIES, type SeriesRole } from './palette.js';
 import { Plot, renderPlot } from './plot-dom.js';
-import { fmt } from './units.js';
+import { fmt } from '../report/units.js';
 
 export interface SweepCurve {
   readonly name: string;

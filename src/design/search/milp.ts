@@ -26,12 +26,12 @@
  * compatibilities never helps I, so every stable design must switch on some toggle touching I that is
  * off now: Σ_{j off, j touches I} x_j ≥ 1. (If there is none, no design is stable.)
  */
-import { SolverError } from '../errors.js';
-import { compileGraph } from '../model/compile.js';
-import { checkStability } from '../stability/check.js';
-import { solveWithHighs } from '../solvers/highs.js';
-import type { LinearProgram, LpConstraint, LpVariable } from '../solvers/lp.js';
-import { degreesAllowed, designCost, designPairs, type DesignProblem } from './problem.js';
+import { SolverError } from '../../errors.js';
+import { compileGraph } from '../../model/compile.js';
+import { checkStability } from '../../stability/check.js';
+import { solveWithHighs } from '../../solvers/highs.js';
+import type { LinearProgram, LpConstraint, LpVariable } from '../../solvers/lp.js';
+import { degreesAllowed, designCost, designPairs, type DesignProblem } from '../space/problem.js';
 
 /** A linear cut on the toggles: Σ coefficients · x ≥ rhs. */
 export interface ToggleCut {

@@ -12,10 +12,10 @@
  * the same guard as a fresh evaluation, which also gives its exact count). When the base itself cannot
  * be prepared (unstable, or beyond the single-change memory guard) every flip is scored afresh.
  */
-import { TooLargeError, UnstableDesignError } from '../errors.js';
-import { DEFAULT_MAX_SETS } from '../exact/evaluate.js';
-import { prepareComponents } from '../exact/prepare.js';
-import { DEFAULT_CHANGE_MAX_SETS, singleChangeEvaluator, type SingleChangeEvaluator } from '../exact/single-change.js';
+import { TooLargeError, UnstableDesignError } from '../../errors.js';
+import { DEFAULT_MAX_SETS } from '../../exact/evaluate.js';
+import { prepareComponents } from '../../exact/prepare.js';
+import { DEFAULT_CHANGE_MAX_SETS, singleChangeEvaluator, type SingleChangeEvaluator } from '../../exact/single-change.js';
 import { scoreDesign, specModel, unstableAtSight, UNSTABLE_EVALUATED, UNSTABLE_UNEVALUATED, type Score, type ScoreSpec } from './score.js';
 
 /** The design with toggle j switched. */

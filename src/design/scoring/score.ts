@@ -7,10 +7,10 @@
  * otherwise the exact recursion itself refuses every independent set A with λ(N(A)) <= λ(A ∖ S)
  * (UnstableDesignError), which is the stability condition.
  */
-import { UnstableDesignError } from '../errors.js';
-import { compileGraph, type CompiledModel } from '../model/compile.js';
-import { bipartition, components } from '../model/components.js';
-import { evaluateBacklog, evaluateExact } from '../exact/evaluate.js';
+import { UnstableDesignError } from '../../errors.js';
+import { compileGraph, type CompiledModel } from '../../model/compile.js';
+import { bipartition, components } from '../../model/components.js';
+import { evaluateBacklog, evaluateExact } from '../../exact/evaluate.js';
 
 /** Everything a scorer needs, as plain data (it is sent to worker threads). */
 export interface ScoreSpec {

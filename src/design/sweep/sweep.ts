@@ -8,11 +8,11 @@
  * Steps: s_t = 1 + (t / N) · approach · (s* − 1), t = 0..N (linear in the factor; `approach` = 0.98
  * stops at 98 % of the headroom). When nothing limits the growth, the sweep runs to s = maxFactor.
  */
-import { EdgewiseError, UnstableDesignError, UsageError } from '../errors.js';
-import { compileGraph, edgePairs, findEdge, withRates, type CompiledModel } from '../model/compile.js';
-import { evaluateBacklog } from '../exact/evaluate.js';
-import { checkStability } from '../stability/check.js';
-import { certificateWithIds } from '../stability/certificate.js';
+import { EdgewiseError, UnstableDesignError, UsageError } from '../../errors.js';
+import { compileGraph, edgePairs, findEdge, withRates, type CompiledModel } from '../../model/compile.js';
+import { evaluateBacklog } from '../../exact/evaluate.js';
+import { checkStability } from '../../stability/check.js';
+import { certificateWithIds } from '../../stability/certificate.js';
 import { findCrossovers, type Crossover } from './crossover.js';
 import { growthLimit } from './growth-limit.js';
 

@@ -1,0 +1,63 @@
+/**
+ * Display width and word wrapping for terminal text. Widths are terminal columns (string-width:
+ * wide East Asian characters count two, combining marks zero), so a table lines up whatever the ids.
+ */
+import stringWidth from 'string-width';
+
+export const width = (s: string): number => stringWidth(s);
+
+/** Pads to `w` columns (left- or right-aligned). */
+export function pad(s: string, w: number, align: 'left' | 'right'): string {
+  const gap = Math.max(0, w - width(s));
+  return align === 'right' ? ' '.repeat(gap) + s : s + ' '.repeat(gap);
+}
+
+/** Splits a word that is wider than `w` into pieces of at most `w` columns. */
+function hardBreak(word: string, w: number): string[] {
+  const out: string[] = [];
+  let cur = '';
+  for (const ch of word) {
+    if (width(cur + ch) > w && cur !== '') {
+      out.push(cur);
+      cur = '';
+    }
+    cur += ch;
+  }
+  if (cur !== '') out.push(cur);
+  return out;
+}
+
+/**
+ * Wraps text to lines of at most `w` columns, breaking at spaces; a word wider than the line is
+ * broken where it must. Explicit newlines are kept. `indent` prefixes every line after the first
+ * (a hanging indent).
+ */
+export function wrap(text: string, w: number, indent = ''): string[] {
+  const lines: string[] = [];
+  const limit = Math.max(width(indent) + 4, w);
+  const push = (s: string): void => void lines.push((lines.length === 0 ? '' : indent) + s);
+  const room = (): number => limit - (lines.length === 0 ? 0 : width(indent));
+  for (const para of text.split('\n')) {
+    const words = para.split(' ').filter((x) => x !== '');
+    if (words.length === 0) {
+      push('');
+      continue;
+    }
+    let cur = '';
+    for (const word of words) {
+      if (cur !== '' && width(cur) + 1 + width(word) <= room()) {
+        cur += ` ${word}`;
+        continue;
+      }
+      if (cur !== '') push(cur);
+      if (width(word) <= room()) cur = word;
+      else {
+        const pieces = hardBreak(word, limit - width(indent));
+        for (let i = 0; i < pieces.length - 1; i++) push(pieces[i]!);
+        cur = pieces[pieces.length - 1]!;
+      }
+    }
+    push(cur);
+  }
+  return lines;
+}

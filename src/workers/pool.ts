@@ -1,0 +1,128 @@
+/**
+ * The one pool of worker threads, serving simulation replications and design scoring alike. A pool
+ * is set up for one job (WorkerInit: the simulation model and plan, or the scoring spec), starts at
+ * most `jobs` workers lazily, hands each task to an idle worker (queueing the rest), and resolves
+ * every task's promise with its result. Callers put results back in input order themselves, so
+ * nothing they compute depends on which worker finishes first.
+ *
+ * Workers run the compiled module dist/workers/worker.js. When this module runs from the TypeScript
+ * sources (vitest, tsx) there is no compiled worker next to it: `workerUrl()` is undefined and the
+ * callers run the same code in the calling thread instead.
+ *
+ * `close()` terminates the workers; tasks still pending then reject with PoolClosedError, which is
+ * how an interrupted run stops its workers at once.
+ */
+import { Worker } from 'node:worker_threads';
+import { reviveError, type FromWorker, type ToWorker, type WorkerInit, type WorkerTask } from './protocol.js';
+
+/** URL of the compiled worker next to this module, or undefined when running from TypeScript sources. */
+export function workerUrl(): URL | undefined {
+  return import.meta.url.endsWith('.js') ? new URL('./worker.js', import.meta.url) : undefined;
+}
+
+/** A task rejected because the pool was closed before it finished. */
+export class PoolClosedError extends Error {
+  constructor() {
+    super('the worker pool was closed');
+  }
+}
+
+interface Pending {
+  readonly task: WorkerTask;
+  readonly transfer: ArrayBuffer[];
+  readonly onProgress: ((amount: number) => void) | undefined;
+  readonly resolve: (v: unknown) => void;
+  readonly reject: (e: Error) => void;
+}
+
+export class WorkerPool {
+  private readonly workers: Worker[] = [];
+  private readonly idle: Worker[] = [];
+  private readonly queue: Array<Pending & { readonly id: number }> = [];
+  private readonly running = new Map<number, Pending & { readonly worker: Worker }>();
+  private nextId = 0;
+  private failure: Error | undefined;
+  private closed = false;
+
+  constructor(
+    private readonly init: WorkerInit,
+    readonly jobs: number,
+    private readonly url: URL,
+  ) {}
+
+  /** Runs one task on a worker; `onProgress` receives the progress the task reports. */
+  run<R>(task: WorkerTask, onProgress?: (amount: number) => void, transfer: ArrayBuffer[] = []): Promise<R> {
+    if (this.failure) return Promise.reject(this.failure);
+    if (this.closed) return Promise.reject(new PoolClosedError());
+    return new Promise<R>((resolve, reject) => {
+      this.queue.push({ id: this.nextId++, task, transfer, onProgress, resolve: resolve as (v: unknown) => void, reject });
+      this.dispatch();
+    });
+  }
+
+  private dispatch(): void {
+    while (this.queue.length > 0) {
+      const w = this.idle.pop() ?? (this.workers.length < this.jobs ? this.spawn() : undefined);
+      if (!w) return;
+      const p = this.queue.shift()!;
+      this.running.set(p.id, { ...p, worker: w });
+      const msg: ToWorker = { id: p.id, task: p.task };
+      w.postMessage(msg, p.transfer);
+    }
+  }
+
+  private spawn(): Worker {
+    const w = new Worker(this.url, { workerData: this.init });
+    w.on('message', (m: FromWorker) => {
+      const p = this.running.get(m.id);
+      if (!p) return;
+      if (m.type === 'progress') {
+        p.onProgress?.(m.amount);
+        return;
+      }
+      this.running.delete(m.id);
+      this.idle.push(w);
+      if (m.type === 'error') p.reject(reviveError(m.error));
+      else p.resolve(m.result);
+      this.dispatch();
+    });
+    w.on('error', (e) => this.fail(new Error(`a worker thread failed: ${e.message}`)));
+    w.on('exit', (code) => {
+      if (!this.closed && code !== 0) this.fail(new Error(`a worker thread stopped with code ${code}`));
+    });
+    this.workers.push(w);
+    return w;
+  }
+
+  private fail(e: Error): void {
+    this.failure ??= e;
+    for (const p of this.running.values()) p.reject(this.failure);
+    for (const p of this.queue) p.reject(this.failure);
+    this.running.clear();
+    this.queue.length = 0;
+  }
+
+  /** Stops every worker; pending tasks reject with PoolClosedError. Always call it. */
+  async close(): Promise<void> {
+    if (this.closed) return;
+    this.closed = true;
+    const err = new PoolClosedError();
+    for (const p of this.running.values()) p.reject(err);
+    for (const p of this.queue) p.reject(err);
+    this.running.clear();
+    this.queue.length = 0;
+    const all = this.workers.splice(0);
+    this.idle.length = 0;
+    await Promise.all(all.map((w) => w.terminate()));
+  }
+}
+
+/**
+ * A pool for `jobs` parallel tasks, or undefined when the work should run in the calling thread
+ * (jobs ≤ 1, or no compiled worker: running from sources). `url` overrides the worker script (tests).
+ */
+export function createPool(init: WorkerInit, jobs: number, url: URL | null | undefined = workerUrl()): WorkerPool | undefined {
+  const j = Math.max(1, Math.floor(jobs));
+  if (j <= 1 || url === null || url === undefined) return undefined;
+  return new WorkerPool(init, j, url);
+}

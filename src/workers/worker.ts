@@ -1,0 +1,40 @@
+/**
+ * Entry point of every worker thread (started by pool.ts from the built dist/ folder). Set up once
+ * with a WorkerInit (workerData), it runs the tasks it is sent one at a time and posts back
+ * progress, a result or a serialised error. Each kind loads only the modules it needs.
+ */
+import { parentPort, workerData } from 'node:worker_threads';
+import { serialiseError, type FromWorker, type ToWorker, type WorkerInit } from './protocol.js';
+
+const init = workerData as WorkerInit;
+const port = parentPort!;
+
+type Handler = (msg: ToWorker, progress: (amount: number) => void) => { result: unknown; transfer: ArrayBuffer[] };
+
+async function handlerFor(init: WorkerInit): Promise<Handler> {
+  if (init.kind === 'simulate') {
+    const { runReplication } = await import('../sim/replication.js');
+    return (msg, progress) => {
+      if (msg.task.kind !== 'replication') throw new Error(`a simulation worker got a ${msg.task.kind} task`);
+      const record = runReplication(init.model, init.plan, msg.task.index, msg.task.state, progress);
+      return { result: record, transfer: [record.hist.buffer as ArrayBuffer] };
+    };
+  }
+  const { runTask } = await import('../design/scoring/score-task.js');
+  return (msg) => {
+    if (msg.task.kind !== 'score') throw new Error(`a scoring worker got a ${msg.task.kind} task`);
+    return { result: msg.task.tasks.map((t) => runTask(init.spec, t)), transfer: [] };
+  };
+}
+
+const ready = handlerFor(init);
+port.on('message', (msg: ToWorker) => {
+  void ready.then((handle) => {
+    try {
+      const { result, transfer } = handle(msg, (amount) => port.postMessage({ id: msg.id, type: 'progress', amount } satisfies FromWorker));
+      port.postMessage({ id: msg.id, type: 'done', result } satisfies FromWorker, transfer);
+    } catch (e) {
+      port.postMessage({ id: msg.id, type: 'error', error: serialiseError(e) } satisfies FromWorker);
+    }
+  });
+});
