@@ -10,6 +10,9 @@
  * alike; CPU time of the process is the main figure, wall-clock time is printed beside it.
  */
 import { evaluateExact } from '../src/exact/evaluate.js';
+import { changesOf } from '../src/usecases/sensitivity.js';
+import { scenarioContext } from '../src/usecases/context.js';
+const ctxOf = (scenario: Scenario) => scenarioContext(scenario, { source: 'bench' });
 import { singleChangeEvaluator } from '../src/exact/single-change.js';
 import { sensitivity } from '../src/design/sensitivity/sensitivity.js';
 import { compileGraph, edgePairs, type CompiledModel } from '../src/model/compile.js';
@@ -74,7 +77,7 @@ function runCase(name: string): void {
   const model = CASES[name]!();
   const scenario = scenarioOf(model);
   evaluateExact(model); // warm up the full evaluation
-  sensitivity(scenario, model, { allPairs: false }); // and the table code (removals only)
+  sensitivity(model, changesOf(ctxOf(scenario), false), {}); // and the table code (removals only)
   // The whole table as the command computes it (stability, bottleneck, every change, ranking), with a
   // full evaluateExact interleaved every few entries; its time is measured apart and taken out.
   const full: Clock = { wall: 0, cpu: 0 };
@@ -82,8 +85,7 @@ function runCase(name: string): void {
   const changes = (model.n * (model.n + 1)) / 2;
   const every = Math.max(1, Math.floor(changes / 10));
   const start: Clock = { wall: performance.now(), cpu: cpu() };
-  const table = sensitivity(scenario, model, {
-    allPairs: true,
+  const table = sensitivity(model, changesOf(ctxOf(scenario), true), {
     onProgress: (done) => {
       if (done % every !== 0) return;
       const w0 = performance.now();

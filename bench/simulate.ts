@@ -69,7 +69,7 @@ export async function runSimulateBench(log: (line: string) => void = (l) => cons
   log(`  10-class dense design  ${fmtRate(engineRate(dense, 'fcfm', 20_000_000, 3))}`);
   log('');
   log('one thread, other policies (1 × 10,000,000 arrivals)');
-  for (const policy of ['longest', 'priority', 'random'] as const) {
+  for (const policy of ['most-waiting', 'ranked', 'random-class'] as const) {
     log(`  ${policy.padEnd(9)} cycle ${fmtRate(engineRate(cycle, policy, 10_000_000, 1))}, dense ${fmtRate(engineRate(dense, policy, 10_000_000, 1))}`);
   }
   log('');

@@ -1,6 +1,6 @@
 /**
  * Typed errors. Core code throws these; the CLI (src/cli/exit.ts) is the one place that turns them
- * into exit codes and messages.
+ * into exit codes and messages, by class.
  */
 
 /** One problem found while validating a scenario, with the JSON path where it sits. */
@@ -12,8 +12,6 @@ export interface ScenarioProblem {
 
 /** Base class for every error edgewise throws on purpose. */
 export class EdgewiseError extends Error {
-  /** Exit code the CLI uses for this kind of error. */
-  readonly exitCode: number = 1;
   constructor(message: string) {
     super(message);
     this.name = new.target.name;
@@ -22,7 +20,6 @@ export class EdgewiseError extends Error {
 
 /** The scenario is malformed: lists every problem at once (exit 2). */
 export class InvalidScenarioError extends EdgewiseError {
-  override readonly exitCode = 2;
   readonly problems: readonly ScenarioProblem[];
   readonly source: string | undefined;
   constructor(problems: readonly ScenarioProblem[], source?: string) {
@@ -35,7 +32,6 @@ export class InvalidScenarioError extends EdgewiseError {
 
 /** A file could not be read (exit 2). */
 export class ScenarioFileError extends EdgewiseError {
-  override readonly exitCode = 2;
   readonly path: string;
   constructor(path: string, reason: string) {
     super(`cannot read scenario file ${path}: ${reason}`);
@@ -44,9 +40,7 @@ export class ScenarioFileError extends EdgewiseError {
 }
 
 /** Bad command-line usage or option value (exit 2). */
-export class UsageError extends EdgewiseError {
-  override readonly exitCode = 2;
-}
+export class UsageError extends EdgewiseError {}
 
 /**
  * A certificate of instability: an independent set I of classes without self-loop whose demand
@@ -67,7 +61,6 @@ export interface InstabilityCertificate {
 
 /** The design is unstable: carries its certificate (exit 3). */
 export class UnstableDesignError extends EdgewiseError {
-  override readonly exitCode = 3;
   readonly certificate: InstabilityCertificate;
   readonly timeUnit: string;
   constructor(certificate: InstabilityCertificate, timeUnit = 'time unit', describe?: string) {
@@ -79,7 +72,6 @@ export class UnstableDesignError extends EdgewiseError {
 
 /** The exact evaluation would need too many independent sets (exit 4). */
 export class TooLargeError extends EdgewiseError {
-  override readonly exitCode = 4;
   readonly count: number;
   readonly limit: number;
   constructor(message: string, count: number, limit: number) {
@@ -91,7 +83,6 @@ export class TooLargeError extends EdgewiseError {
 
 /** An external solver failed or returned an answer that violates the constraints (exit 5). */
 export class SolverError extends EdgewiseError {
-  override readonly exitCode = 5;
 }
 
 /**
@@ -100,9 +91,11 @@ export class SolverError extends EdgewiseError {
  */
 export class InternalError extends EdgewiseError {}
 
+/** The run was stopped (SIGINT or SIGTERM) before it finished (exit 130). */
+export class InterruptedError extends EdgewiseError {}
+
 /** No design satisfies the constraints within the budget (exit 3). */
 export class InfeasibleDesignError extends EdgewiseError {
-  override readonly exitCode = 3;
 }
 
 const fmt = (x: number): string => (Number.isInteger(x) ? x.toFixed(1) : x.toPrecision(4).replace(/\.?0+$/, ''));

@@ -1,58 +1,41 @@
-// The whole public API of edgewise. This file only re-exports.
+// The public API of edgewise. This file only re-exports: the core (scenario, model, stability, exact
+// evaluation, simulation), the use cases (one per command, each returning one record), and the
+// output layer that renders any record.
+
+// scenario and model
 export * from './errors.js';
 export type { Scenario, ClassSpec, CompatibilitySpec, CandidateSpec } from './model/scenario.js';
 export { pairKey } from './model/scenario.js';
 export { parseScenario, validateScenario } from './model/validate.js';
-export { locateJsonError } from './model/json-locate.js';
-export type { CompiledModel } from './model/compile.js';
-export { compileModel, compileGraph, withPairs, withRates, edgePairs, findEdge } from './model/compile.js';
-export type { Components } from './model/components.js';
-export { components, bipartition, subModel } from './model/components.js';
-export type { ExactResult } from './exact/result.js';
-export { evaluateExact, evaluateBacklog, DEFAULT_MAX_SETS, type ExactOptions, type BacklogOnly } from './exact/evaluate.js';
+export { parseDesignFile, type DesignFile } from './model/design-file.js';
+export { compileModel, compileGraph, type CompiledModel } from './model/compile.js';
 export { cyclePairs, completePairs, randomRegularPairs, randomPairs } from './model/generators.js';
-export { seededRandom } from './random.js';
-export { evaluationRecord, type EvaluationRecord } from './report/evaluation.js';
-export { toGraph, assignMetrics, type ClassAttributes, type CompatibilityAttributes } from './report/graph.js';
-export type { StabilityReport, ComponentStability, IndexCertificate, TightSet } from './stability/report.js';
-export { checkStability, assertStable } from './stability/check.js';
-export { certificateWithIds } from './stability/certificate.js';
-export { TOLERANCE as STABILITY_TOLERANCE } from './stability/tolerance.js';
-export { edgeFlowProgram, headroomProgram, readEdgeFlow, readHeadroom, type EdgeFlowProgram } from './stability/programs.js';
-export type { LinearProgram, LpVariable, LpConstraint, LinearExpression, LpSolution, LpStatus, SolveOptions as LpSolveOptions, Relation, VariableKind } from './solvers/lp.js';
-export { solveWithJsLp } from './solvers/jslp.js';
-export { solveWithHighs } from './solvers/highs.js';
-export { findViolation } from './solvers/verify.js';
-export type { SimulationOptions, SimulationResult } from './sim/simulate.js';
-export { simulate, SIM_DEFAULTS } from './sim/simulate.js';
-export type { PolicyName } from './sim/policy.js';
-export { POLICIES, POLICY_DESCRIPTION } from './sim/policy.js';
-export type { Estimate, WaitEstimate, PerClass, ReplicationSummary } from './sim/summary.js';
-export type { ReplicationPlan, ReplicationRecord } from './sim/record.js';
-export { buildSimModel, type SimModel, type SimModelOptions } from './sim/sim-model.js';
-export { runReplication } from './sim/replication.js';
-export { seedState, streamState, streamStates, type RandomState } from './sim/random.js';
-export { demandVariants, type DemandVariant } from './model/demand.js';
-export { gatherReport, type GatherOptions } from './report/gather-report.js';
-export { renderReport, type ReportMeta } from './html/report-html.js';
-export type { ReportData, DesignView, SensitivityRow, SweepView, Outcome } from './report/report-data.js';
-export { compareScenarios, type CompareColumn, type CompareInput, type CompareOptions, type DesignSummary } from './report/compare.js';
-export { compareRecord, compareCsv } from './report/compare-output.js';
-export { layoutGraph, type Layout } from './html/layout.js';
-export { escapeHtml } from './html/escape.js';
-export { readDesignFields, type DesignFields } from './model/design-fields.js';
-export { designProblem, designCost, designChanges, designPairs, type DesignProblem, type Toggle, type ToggleKind, type ForcedRemoval } from './design/space/problem.js';
-export { recommend, designDetails, type RecommendOptions, type RecommendProgress, type Recommendation, type DesignDetails, type BaselineResult } from './design/search/recommend.js';
-export type { ReuseMode } from './design/scoring/reuse.js';
-export { OBJECTIVES, objectiveValue, type ObjectiveName } from './design/space/objective.js';
-export { paretoFront, type ParetoPoint } from './design/space/pareto.js';
-export { cheapestStableDesign, maxMinFlowDesign, flowMilp, type MilpDesign, type FlowMilpOptions } from './design/search/milp.js';
-export { baselines, type Baseline, type BaselineName } from './design/search/baselines.js';
-export { recommendationRecord, recommendationCsv, type RecommendationRecord } from './report/recommendation.js';
-export { singleChangeEvaluator, DEFAULT_CHANGE_MAX_SETS, type ChangeResult, type SingleChangeEvaluator, type SingleChangeOptions } from './exact/single-change.js';
-export { sensitivity, type SensitivityEntry, type SensitivityResult, type SensitivityOptions } from './design/sensitivity/sensitivity.js';
-export { bottlenecksOf, relationTo, type Bottleneck, type BottleneckRelation } from './design/sensitivity/bottleneck-relation.js';
-export { sweep, applyChanges, type SweepResult, type SweepCurve, type SweepCrossover, type SweepOptions, type SweepVariantSpec } from './design/sweep/sweep.js';
-export { growthLimit, GROWTH_LIMIT_METHOD } from './design/sweep/growth-limit.js';
-export { sensitivityRecord, type SensitivityRecord } from './report/sensitivity-record.js';
-export { sweepRecord, sweepCsv, type SweepRecord } from './report/sweep-record.js';
+
+// core computations
+export { checkStability } from './stability/check.js';
+export type { StabilityReport, TightSet } from './stability/report.js';
+export { evaluateExact, evaluateBacklog, DEFAULT_MAX_SETS, type ExactOptions } from './exact/evaluate.js';
+export type { ExactResult } from './exact/result.js';
+export { singleChangeEvaluator, type ChangeResult, type SingleChangeEvaluator } from './exact/single-change.js';
+export { simulate, type SimulationOptions, type SimulationResult } from './sim/simulate.js';
+export { POLICIES, POLICY_DESCRIPTION, type PolicyName } from './sim/policy.js';
+export { designProblem, type DesignProblem } from './design/space/problem.js';
+export { recommend, type RecommendOptions, type Recommendation } from './design/search/recommend.js';
+export { decide, type Decision, type Verdict } from './design/decision/decide.js';
+
+// use cases: one record per command
+export { scenarioContext, type ScenarioContext, type ContextOptions } from './usecases/context.js';
+export { checkUseCase, type CheckRecord } from './usecases/check.js';
+export { evaluateUseCase, type EvaluateRecord } from './usecases/evaluate.js';
+export { simulateUseCase, type SimulateRecord } from './usecases/simulate.js';
+export { sensitivityUseCase, type SensitivityRecord } from './usecases/sensitivity.js';
+export { sweepUseCase, type SweepRecord } from './usecases/sweep.js';
+export { recommendUseCase, type RecommendRecord } from './usecases/recommend.js';
+export { compareUseCase, type CompareRecord } from './usecases/compare.js';
+export { reportUseCase, decisionRecord, type ReportRecord } from './usecases/report.js';
+
+// output: text, JSON, CSV, HTML, graphs
+export { renderJson, renderCsv } from './output/machine.js';
+export { renderDoc, type Block } from './output/text/doc.js';
+export { renderReport } from './html/report-html.js';
+export { toGraph, assignMetrics } from './output/graph.js';

@@ -5,12 +5,27 @@ export interface CommandIO {
   readonly out: (text: string) => void;
   /** Write to standard error. */
   readonly err: (text: string) => void;
-  /** True when standard error is a terminal (progress bars allowed). */
+  /** True when standard error is a terminal (progress display allowed). */
   readonly isTTY: boolean;
+  /**
+   * Width of text output: the terminal's columns when standard output is one (COLUMNS when set),
+   * else COLUMNS when set, else 120.
+   */
+  readonly columns: number;
+  /** Aborted on SIGINT/SIGTERM: long runs stop and give what they found so far. */
+  readonly signal?: AbortSignal;
+}
+
+/** The text width for an output stream (see CommandIO.columns). */
+export function textWidth(stdoutColumns: number | undefined, env: NodeJS.ProcessEnv): number {
+  const fromEnv = Number(env['COLUMNS']);
+  if (Number.isInteger(fromEnv) && fromEnv >= 20) return fromEnv;
+  if (stdoutColumns !== undefined && stdoutColumns >= 20) return stdoutColumns;
+  return 120;
 }
 
 /** An IO that collects everything, for tests. */
-export function memoryIO(cwd = process.cwd()): CommandIO & { stdout: () => string; stderr: () => string } {
+export function memoryIO(cwd = process.cwd(), columns = 120, signal?: AbortSignal): CommandIO & { stdout: () => string; stderr: () => string } {
   let o = '';
   let e = '';
   return {
@@ -22,6 +37,8 @@ export function memoryIO(cwd = process.cwd()): CommandIO & { stdout: () => strin
       e += t;
     },
     isTTY: false,
+    columns,
+    ...(signal ? { signal } : {}),
     stdout: () => o,
     stderr: () => e,
   };

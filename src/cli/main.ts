@@ -1,130 +1,144 @@
 #!/usr/bin/env node
 /**
  * The edgewise command line. This file only declares commands and flags; each command's work lives
- * in src/cli/commands/<name>.ts, imported lazily, and src/cli/exit.ts turns errors into exit codes.
+ * in src/cli/commands/<name>.ts, imported lazily (a command loads only what it uses), and
+ * src/cli/exit.ts turns errors into exit codes.
+ *
+ * Interrupts: the first SIGINT or SIGTERM aborts the run's signal — `recommend` and `simulate` stop
+ * their workers and print what they found so far, marked partial, then exit 130; other commands
+ * exit 130 at once. A second signal exits at once. Every exit path gives the terminal back (cursor
+ * shown, line wrap on).
  */
 import { Command, CommanderError, Option } from 'commander';
 import { runWithExitCode } from './exit.js';
-import type { CommandIO } from './io.js';
+import { textWidth, type CommandIO } from './io.js';
+import { restoreTerminal } from './progress.js';
+
+const controller = new AbortController();
+/** Commands that stop gracefully on the first signal (they give partial results). */
+const GRACEFUL = new Set(['recommend', 'simulate']);
+let running = '';
+let signals = 0;
+const onSignal = (): void => {
+  signals++;
+  restoreTerminal((s) => process.stderr.write(s));
+  if (signals === 1 && GRACEFUL.has(running)) {
+    process.stderr.write('\nedgewise: interrupted; finishing with what was found so far (press Ctrl-C again to stop at once)\n');
+    controller.abort();
+    return;
+  }
+  process.exit(130);
+};
+process.on('SIGINT', onSignal);
+process.on('SIGTERM', onSignal);
+process.on('exit', () => restoreTerminal((s) => process.stderr.write(s)));
 
 const io: CommandIO = {
   cwd: process.cwd(),
   out: (t) => void process.stdout.write(t),
   err: (t) => void process.stderr.write(t),
   isTTY: Boolean(process.stderr.isTTY),
+  columns: textWidth(process.stdout.isTTY ? process.stdout.columns : undefined, process.env),
+  signal: controller.signal,
 };
 
-/** Runs a command module's function and exits with its code. */
-function action<O>(load: () => Promise<(opts: O, io: CommandIO) => Promise<number>>) {
+/** Runs a command module's function and sets the exit code. */
+function action<O>(name: string, load: () => Promise<(opts: O, io: CommandIO) => Promise<number>>) {
   return async (opts: O): Promise<void> => {
+    running = name;
     const code = await runWithExitCode(io, async () => (await load())(opts, io));
     process.exitCode = code;
   };
+}
+
+const collect = (v: string, prev: string[] = []): string[] => [...prev, v];
+
+/** The flags every command that looks at one scenario shares. */
+function scenarioFlags(c: Command, { budget = false, design = true, csv = false } = {}): Command {
+  c.argument('<file>', 'scenario file (JSON)');
+  if (design) {
+    c.option('--design <file>', 'use this design instead of today\'s: a JSON {"added": [...], "removed": [...]} or the file `recommend --save` writes');
+    c.option('--demand <name>', "evaluate under this demand variant of the scenario instead of the classes' rates");
+  }
+  if (budget) c.option('--budget <b>', "most a design may cost (default: the scenario's budget, else unlimited)");
+  c.option('--json', 'machine-readable output (JSON)');
+  if (csv) c.option('--csv', 'machine-readable output (CSV)');
+  c.option('--wide', 'text: one table with every column, whatever the terminal width');
+  return c;
 }
 
 const program = new Command();
 program
   .name('edgewise')
   .description('Exact evaluation and budgeted design of compatibility graphs for dynamic matching systems.')
-  .version('0.1.0')
+  .version('0.2.0')
   .showHelpAfterError()
   .exitOverride();
 
-program
-  .command('check')
-  .description('is the design stable, and how much room is left?')
-  .argument('<file>', 'scenario file (JSON)')
-  .option('--json', 'machine-readable output')
-  .action((file: string, opts: Record<string, unknown>) =>
-    action(async () => (await import('./commands/check.js')).checkCommand)({ ...opts, file }));
+scenarioFlags(program.command('check').description('is the design stable, how much room is left, and the ways out when it is not?')).action(
+  (file: string, opts: Record<string, unknown>) => action('check', async () => (await import('./commands/check.js')).checkCommand)({ ...opts, file }),
+);
 
-program
-  .command('evaluate')
-  .description('exact steady state under FCFM: backlog, waits, immediate matches, match rates')
-  .argument('<file>', 'scenario file (JSON)')
-  .option('--json', 'machine-readable output')
+scenarioFlags(program.command('evaluate').description('exact steady state under FCFM: backlog, waits, matches at once, where matches happen'))
   .addOption(new Option('--max-sets <n>', 'refuse above this many independent sets (memory guard)').argParser(Number))
-  .action((file: string, opts: Record<string, unknown>) =>
-    action(async () => (await import('./commands/evaluate.js')).evaluateCommand)({ ...opts, file }));
+  .option('--wait-unit <unit>', 'show waits in this unit: second, minute, hour, day or week (default: automatic)')
+  .action((file: string, opts: Record<string, unknown>) => action('evaluate', async () => (await import('./commands/evaluate.js')).evaluateCommand)({ ...opts, file }));
 
-// -- more commands are declared here (one block per command) --
-program
-  .command('sensitivity')
-  .description('exact effect of every single change: each candidate added, each compatibility removed, flagged and explained')
-  .argument('<file>', 'scenario file (JSON)')
+scenarioFlags(program.command('simulate').description('simulate a matching policy: backlog, waits and percentiles, abandonment, with 95 % intervals'))
+  .addOption(new Option('--policy <name>', 'fcfm | most-waiting | ranked | random-class').default('fcfm'))
+  .option('--rank <classes>', 'comma-separated class ids, first = most preferred partner (with --policy ranked)')
+  .option('--arrivals <n>', 'measured arrivals per replication (default 2000000)')
+  .option('--replications <r>', 'independent replications (default 8)')
+  .option('--warmup <w>', 'arrivals discarded first in each replication (default arrivals/10)')
+  .option('--seed <s>', 'random seed (default 1); the same seed gives the same output whatever --jobs')
+  .option('--jobs <j>', 'worker threads (default: the number of cores)')
+  .option('--max-waiting <n>', 'stop when more items wait at once (default 5000000)')
+  .addOption(new Option('--max-sets <n>', 'memory guard of the exact FCFM column, in independent sets (default 1000000)').argParser(Number))
+  .option('--timed', 'simulate the Poisson clock explicitly (slower; automatic when classes have patience)')
+  .option('--wait-unit <unit>', 'show waits in this unit (default: automatic)')
+  .action((file: string, opts: Record<string, unknown>) => action('simulate', async () => (await import('./commands/simulate.js')).simulateCommand)({ ...opts, file }));
+
+scenarioFlags(program.command('sensitivity').description('exact effect of every single change, with the rules that allow it, flagged and explained'), { csv: true })
   .option('--all-pairs', 'try every absent pair (self-pairs included), not only the candidates')
-  .option('--json', 'machine-readable output')
   .addOption(new Option('--max-sets <n>', 'memory guard: refuse above this many independent sets (about 200 bytes each)').argParser(Number))
-  .action((file: string, opts: Record<string, unknown>) =>
-    action(async () => (await import('./commands/sensitivity.js')).sensitivityCommand)({ ...opts, file }));
+  .action((file: string, opts: Record<string, unknown>) => action('sensitivity', async () => (await import('./commands/sensitivity.js')).sensitivityCommand)({ ...opts, file }));
 
-program
-  .command('sweep')
-  .description('heavy-traffic view: grow some classes to the stability limit, exact backlog of today and of variants, crossovers')
-  .argument('<file>', 'scenario file (JSON)')
-  .requiredOption('--grow <classes>', 'comma-separated class ids whose rates grow together')
-  .option('--with <pairs>', 'a variant adding compatibilities, e.g. a-b or a-b,c-d (repeatable: one variant each)', (v: string, prev: string[] = []) => [...prev, v])
-  .option('--without <pairs>', 'a variant removing compatibilities (repeatable: one variant each)', (v: string, prev: string[] = []) => [...prev, v])
-  .addOption(new Option('--steps <n>', 'steps after today (default 10)').argParser(Number))
-  .option('--json', 'machine-readable output (the curves)')
-  .option('--csv', 'one CSV row per step and design')
-  .action((file: string, opts: Record<string, unknown>) =>
-    action(async () => (await import('./commands/sweep.js')).sweepCommand)({ ...opts, file }));
+scenarioFlags(program.command('sweep').description('grow some classes to the stability limit: exact backlog of the design and of variants, crossovers'), { csv: true })
+  .requiredOption('--grow <classes>', 'comma-separated class ids whose rates grow together (a %2C inside an id)')
+  .option('--with <pairs>', 'a variant adding compatibilities, e.g. a~b or a~b,c~d (repeatable: one variant each)', collect)
+  .option('--without <pairs>', 'a variant removing compatibilities (repeatable: one variant each)', collect)
+  .option('--steps <n>', 'steps after today (default 10)')
+  .action((file: string, opts: Record<string, unknown>) => action('sweep', async () => (await import('./commands/sweep.js')).sweepCommand)({ ...opts, file }));
 
-program
-  .command('recommend')
-  .description('budgeted design: the cost/backlog Pareto set of stable designs, with baselines')
-  .argument('<file>', 'scenario file (JSON)')
-  .addOption(new Option('--budget <b>', "most a design may cost (default: the scenario's budget, else unlimited)").argParser(Number))
+scenarioFlags(program.command('recommend').description('budgeted design: the Pareto set, the recommended design and every single-change verdict against it'), { budget: true, csv: true })
   .addOption(new Option('--objective <name>', 'total | weighted | max-wait').default('total'))
-  .addOption(new Option('--jobs <j>', 'worker threads scoring designs (default 1); the output does not depend on it').argParser(Number))
+  .option('--jobs <j>', 'worker threads scoring designs (default 1); the output does not depend on it')
   .option('--exhaustive', 'enumerate every design (at most 20 removable compatibilities and candidates)')
-  .addOption(new Option('--seed <s>', 'seed of the local search (default 1)').argParser(Number))
+  .option('--seed <s>', 'seed of the local search (default 1)')
   .addOption(new Option('--max-sets <n>', 'memory guard of the exact evaluation (independent sets per design)').argParser(Number))
-  .option('--json', 'machine-readable output')
-  .option('--csv', 'one CSV row per design and baseline')
-  .action((file: string, opts: Record<string, unknown>) =>
-    action(async () => (await import('./commands/recommend.js')).recommendCommand)({ ...opts, file }));
+  .option('--wait-unit <unit>', 'show waits in this unit (default: automatic)')
+  .option('--save <file>', 'write the recommended design (or --pick K) to a design file for --design')
+  .option('--pick <k>', 'with --save: the K-th design of the Pareto set (cheapest first) instead of the recommended one')
+  .action((file: string, opts: Record<string, unknown>) => action('recommend', async () => (await import('./commands/recommend.js')).recommendCommand)({ ...opts, file }));
 
 program
   .command('compare')
-  .description('side by side: one column per scenario (or per budget): stability, bottleneck, backlog, worst wait, best design within budget')
+  .description('side by side: one column per scenario (or per budget): stability, backlog, the recommended design, the robust choice')
   .argument('<files...>', 'scenario files (JSON)')
   .option('--budgets <list>', 'budgets to compare, e.g. 50,100,200 (one column per scenario and budget)')
-  .option('--json', 'machine-readable output')
+  .option('--design <file>', 'a design file applied to every column instead of today\'s')
+  .option('--demand <name>', 'use this demand variant as the rates of every column')
+  .option('--json', 'machine-readable output (JSON)')
   .option('--csv', 'one CSV line per column')
-  .addOption(new Option('--jobs <n>', 'columns evaluated at once').argParser(Number))
-  .action((files: string[], opts: Record<string, unknown>) =>
-    action(async () => (await import('./commands/compare.js')).compareCommand)({ ...opts, files }));
+  .option('--wide', 'text: one table with every column, whatever the terminal width')
+  .option('--jobs <n>', 'columns evaluated at once')
+  .action((files: string[], opts: Record<string, unknown>) => action('compare', async () => (await import('./commands/compare.js')).compareCommand)({ ...opts, files }));
 
-program
-  .command('report')
-  .description('one self-contained HTML report: graph, cost against waiting, waits per class, load sweep, single changes, demand futures')
-  .argument('<file>', 'scenario file (JSON)')
+scenarioFlags(program.command('report').description('one self-contained HTML report: the decision, the graph, cost against waiting, waits, load sweep, single changes, demand futures, inputs'), { budget: true })
   .requiredOption('-o, --output <file>', 'HTML file to write, e.g. report.html')
-  .addOption(new Option('--budget <b>', 'budget of the recommendation (default: the scenario\'s)').argParser(Number))
-  .addOption(new Option('--jobs <n>', 'worker threads of the recommender').argParser(Number))
-  .action((file: string, opts: { output: string } & Record<string, unknown>) =>
-    action(async () => (await import('./commands/report.js')).reportCommand)({ ...opts, file }));
-
-
-program
-  .command('simulate')
-  .description('simulate a matching policy: backlog, waits and percentiles, abandonment, with 95 % intervals')
-  .argument('<file>', 'scenario file (JSON)')
-  .addOption(new Option('--policy <name>', 'fcfm | longest | priority | random').default('fcfm'))
-  .option('--priority <list>', 'comma-separated class ids, first = most preferred partner (with --policy priority)')
-  .addOption(new Option('--arrivals <n>', 'measured arrivals per replication (default 2000000)').argParser(Number))
-  .addOption(new Option('--replications <r>', 'independent replications (default 8)').argParser(Number))
-  .addOption(new Option('--warmup <w>', 'arrivals discarded first in each replication (default arrivals/10)').argParser(Number))
-  .addOption(new Option('--seed <s>', 'random seed (default 1); the same seed gives the same output whatever --jobs').argParser(Number))
-  .addOption(new Option('--jobs <j>', 'worker threads (default: the number of cores)').argParser(Number))
-  .addOption(new Option('--max-waiting <n>', 'stop when more items wait at once (default 5000000)').argParser(Number))
-  .addOption(new Option('--max-sets <n>', 'memory guard of the exact FCFM column, in independent sets (default 1000000)').argParser(Number))
-  .option('--timed', 'simulate the Poisson clock explicitly (slower; automatic when classes have patience)')
-  .option('--json', 'machine-readable output')
-  .action((file: string, opts: Record<string, unknown>) =>
-    action(async () => (await import('./commands/simulate.js')).simulateCommand)({ ...opts, file }));
+  .option('--jobs <n>', 'worker threads of the recommender')
+  .option('--seed <s>', 'seed of the simulated figures shown when classes have patience (default 1)')
+  .action((file: string, opts: Record<string, unknown>) => action('report', async () => (await import('./commands/report.js')).reportCommand)({ ...opts, file }));
 
 try {
   await program.parseAsync(process.argv);

@@ -30,8 +30,10 @@ figure [class$="-swatch"] > svg { width: 17px; height: 17px; }
 .line-key { display: inline-flex; align-items: center; gap: 6px; }
 .chart-box { border: 1px solid ${RULE}; border-radius: 4px; padding: 8px 8px 4px; background: #fff; }
 table { border-collapse: collapse; width: 100%; font-size: 13.5px; margin: 8px 0 12px; font-variant-numeric: tabular-nums; }
-table.changes td:first-child { width: 22%; }
-table.changes td:last-child { width: 38%; }
+table.changes th.change { width: 28%; }
+table.changes th.advice { width: 34%; }
+table.sim { font-size: 12.5px; }
+table.sim th.group { text-align: center; border-bottom: 1px solid ${RULE}; }
 th, td { text-align: left; padding: 6px 8px; border-bottom: 1px solid ${RULE}; vertical-align: top; }
 th { font-weight: 600; color: #3b4250; background: ${PANEL}; border-bottom: 2px solid ${RULE}; }
 td.n, th.n { text-align: right; white-space: nowrap; }

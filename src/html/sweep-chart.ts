@@ -6,7 +6,7 @@
 import { html, raw, type Markup } from './escape.js';
 import { DASH, SERIES, type SeriesRole } from './palette.js';
 import { Plot, renderPlot } from './plot-dom.js';
-import { fmt } from '../report/units.js';
+import { num as fmt } from '../output/format.js';
 
 export interface SweepCurve {
   readonly name: string;

@@ -5,7 +5,7 @@
 import type { Markup } from './escape.js';
 import { SERIES } from './palette.js';
 import { Plot, renderPlot } from './plot-dom.js';
-import { fmt, plural } from '../report/units.js';
+import { num as fmt, plural } from '../output/format.js';
 
 export interface WaitSeries {
   /** Legend name, e.g. "today" or "recommended (cost 30)". */

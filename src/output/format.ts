@@ -126,7 +126,7 @@ export function waitScale(timeUnit: string, values: ArrayLike<number>, requested
   for (let i = 0; i < values.length; i++) if (Number.isFinite(values[i]!) && values[i]! > 0) finite.push(values[i]!);
   if (finite.length === 0) return { unit: base, factor: 1 };
   finite.sort((a, b) => a - b);
-  const median = finite[Math.floor((finite.length - 1) / 2)]! * from;
+  const median = finite[Math.floor(finite.length / 2)]! * from;
   const order = Object.entries(SECONDS).sort((a, b) => b[1] - a[1]);
   for (const [name, secs] of order) {
     if (median / secs >= 1) return { unit: name, factor: from / secs };
@@ -172,6 +172,9 @@ export function listWords(items: readonly string[]): string {
  * 1e-9, so nine digits keep every figure honest and drop solver noise (1.000000001 → 1).
  */
 export const MACHINE_DIGITS = 9;
+
+/** Significant digits of figures read off a linear program's solution (solver tolerance about 1e-8). */
+export const LP_DIGITS = 6;
 
 /**
  * Significant digits an exact figure supports when the bottleneck's spare capacity is `relative`

@@ -1,10 +1,10 @@
 /** Matching policies: which waiting compatible item an arriving item takes. */
 
-export const POLICIES = ['fcfm', 'longest', 'priority', 'random'] as const;
+export const POLICIES = ['fcfm', 'most-waiting', 'ranked', 'random-class'] as const;
 export type PolicyName = (typeof POLICIES)[number];
 
 /** Integer codes used by the hot loops. */
-export const POLICY_CODE: Readonly<Record<PolicyName, number>> = { fcfm: 0, longest: 1, priority: 2, random: 3 };
+export const POLICY_CODE: Readonly<Record<PolicyName, number>> = { fcfm: 0, 'most-waiting': 1, ranked: 2, 'random-class': 3 };
 
 export function isPolicyName(s: string): s is PolicyName {
   return (POLICIES as readonly string[]).includes(s);
@@ -13,9 +13,9 @@ export function isPolicyName(s: string): s is PolicyName {
 /** One line per policy, for help texts and reports. */
 export const POLICY_DESCRIPTION: Readonly<Record<PolicyName, string>> = {
   fcfm: 'the oldest waiting compatible item',
-  longest: 'the compatible class with the most waiting items (ties: the oldest item)',
-  priority: 'the compatible non-empty class ranked first in the priority list (then its oldest item)',
-  random: 'a compatible non-empty class uniformly at random, then its oldest item',
+  'most-waiting': 'the compatible class with the most waiting items (ties: the oldest item)',
+  ranked: 'the compatible non-empty class ranked first in the ranking (then its oldest item)',
+  'random-class': 'a compatible non-empty class uniformly at random, then its oldest item',
 };
 
 /**

@@ -78,6 +78,6 @@ export function buildSimModel(model: CompiledModel, options: SimModelOptions = {
     abandonRate,
     impatient,
     policy: POLICY_CODE[policy],
-    rank: policy === 'priority' ? priorityRanks(n, options.priority ?? []) : new Int32Array(n),
+    rank: policy === 'ranked' ? priorityRanks(n, options.priority ?? []) : new Int32Array(n),
   };
 }

@@ -1,4 +1,4 @@
-import { UsageError } from '../errors.js';
+import { InterruptedError, UsageError } from '../errors.js';
 import type { CompiledModel } from '../model/compile.js';
 import type { PolicyName } from './policy.js';
 import { isPolicyName, POLICIES } from './policy.js';
@@ -16,7 +16,7 @@ export const SIM_DEFAULTS = {
 
 export interface SimulationOptions {
   readonly policy?: PolicyName;
-  /** Priority list of class ids, first = most preferred partner (policy "priority" only). */
+  /** Priority list of class ids, first = most preferred partner (policy "ranked" only). */
   readonly priority?: readonly string[];
   /** Mean patience per class (model order); 0, Infinity or NaN = patient. */
   readonly patience?: ArrayLike<number>;
@@ -38,6 +38,8 @@ export interface SimulationOptions {
   readonly workerUrl?: URL | null;
   /** Called with (arrivals simulated so far, arrivals planned), warm-ups included. */
   readonly onProgress?: (done: number, total: number) => void;
+  /** Stops the run: the result then holds the replications finished (`partial`). */
+  readonly signal?: AbortSignal;
 }
 
 export interface SimulationResult extends ReplicationSummary {
@@ -51,6 +53,10 @@ export interface SimulationResult extends ReplicationSummary {
   readonly engine: 'arrival-chain' | 'timed';
   /** Mean patience used per class (Infinity = patient). */
   readonly patience: Float64Array;
+  /** True when the run was stopped before every replication finished (`replications` says how many did). */
+  readonly partial: boolean;
+  /** Replications asked for. */
+  readonly planned: number;
 }
 
 function positiveInt(name: string, v: number | undefined, fallback: number, min = 1): number {
@@ -65,15 +71,15 @@ export function resolveSimulation(model: CompiledModel, options: SimulationOptio
   if (!isPolicyName(policy)) throw new UsageError(`unknown policy "${String(policy)}" (choose one of ${POLICIES.join(', ')})`);
   let priority: number[] | undefined;
   if (options.priority !== undefined) {
-    if (policy !== 'priority') throw new UsageError('a priority list only applies with the priority policy');
+    if (policy !== 'ranked') throw new UsageError('a ranking only applies with the ranked policy');
     priority = options.priority.map((id) => {
       const k = model.index.get(id);
-      if (k === undefined) throw new UsageError(`unknown class "${id}" in the priority list (known: ${model.ids.slice(0, 8).join(', ')}${model.n > 8 ? ', …' : ''})`);
+      if (k === undefined) throw new UsageError(`unknown class "${id}" in the ranking (known: ${model.ids.slice(0, 8).join(', ')}${model.n > 8 ? ', …' : ''})`);
       return k;
     });
-    if (new Set(priority).size !== priority.length) throw new UsageError('the priority list names a class twice');
-  } else if (policy === 'priority') {
-    throw new UsageError('the priority policy needs a priority list (first = most preferred partner class)');
+    if (new Set(priority).size !== priority.length) throw new UsageError('the ranking names a class twice');
+  } else if (policy === 'ranked') {
+    throw new UsageError('the ranked policy needs a ranking (first = most preferred partner class)');
   }
   const arrivals = positiveInt('arrivals', options.arrivals, SIM_DEFAULTS.arrivals);
   const warmup = positiveInt('warmup', options.warmup, Math.floor(arrivals / 10), 0);
@@ -102,29 +108,33 @@ export async function simulate(model: CompiledModel, options: SimulationOptions 
   const { policy, sim, plan, replications, seed, jobs, patience } = resolveSimulation(model, options);
   const pool = new ReplicationPool(model.n, model.m, model.totalRate, replications);
   const total = plannedArrivals(plan, replications);
-  let done = 0;
+  let simulated = 0;
   const onProgress = options.onProgress;
-  await runReplications(
+  const done = await runReplications(
     sim,
     plan,
     seed,
     replications,
     {
       jobs,
+      ...(options.signal ? { signal: options.signal } : {}),
       ...(options.workerUrl === undefined ? {} : { workerUrl: options.workerUrl }),
       ...(onProgress
         ? {
             onProgress: (a: number) => {
-              done += a;
-              onProgress(done, total);
+              simulated += a;
+              onProgress(simulated, total);
             },
           }
         : {}),
     },
     (record) => pool.add(record),
   );
+  if (done === 0) throw new InterruptedError('interrupted before any replication finished');
   return {
-    ...pool.summary(),
+    ...pool.summary(done < replications),
+    partial: done < replications,
+    planned: replications,
     policy,
     arrivals: plan.arrivals,
     warmup: plan.warmup,

@@ -92,11 +92,14 @@ export class ReplicationPool {
     return this.records.filter((r) => r !== undefined).length;
   }
 
-  summary(): ReplicationSummary {
-    const recs = this.records.map((r, i) => {
-      if (!r) throw new Error(`replication ${i} is missing`);
-      return r;
-    });
+  /** Aggregates the records; with `partial`, only those received (an interrupted run), in index order. */
+  summary(partial = false): ReplicationSummary {
+    const recs = partial
+      ? this.records.filter((r): r is ReplicationRecord => r !== undefined)
+      : this.records.map((r, i) => {
+          if (!r) throw new Error(`replication ${i} is missing`);
+          return r;
+        });
     const { n, m } = this;
     const R = recs.length;
     const L = QUANTILE_LEVELS.length;

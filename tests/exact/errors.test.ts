@@ -1,3 +1,4 @@
+import { exitCodeOf } from '../../src/cli/exit.js';
 import { describe, expect, it } from 'vitest';
 import { TooLargeError, UnstableDesignError } from '../../src/errors.js';
 import { evaluateExact } from '../../src/exact/evaluate.js';
@@ -26,7 +27,7 @@ function expectValidCertificate(design: Design): UnstableDesignError {
   const err = thrown(() => evaluateExact(model));
   expect(err).toBeInstanceOf(UnstableDesignError);
   const e = err as UnstableDesignError;
-  expect(e.exitCode).toBe(3);
+  expect(exitCodeOf(e)).toBe(3);
   const c = e.certificate;
   const index = (id: string): number => {
     const k = design.ids.indexOf(id);
@@ -123,7 +124,7 @@ describe('maxSets', () => {
     const err = thrown(() => evaluateExact(model, { maxSets: count - 1 }));
     expect(err).toBeInstanceOf(TooLargeError);
     const e = err as TooLargeError;
-    expect(e.exitCode).toBe(4);
+    expect(exitCodeOf(e)).toBe(4);
     expect(e.limit).toBe(count - 1);
     expect(e.count).toBeGreaterThan(e.limit);
     expect(evaluateExact(model, { maxSets: count }).independentSets).toBe(count);

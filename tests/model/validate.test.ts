@@ -1,3 +1,4 @@
+import { exitCodeOf } from '../../src/cli/exit.js';
 import { describe, expect, it } from 'vitest';
 import { InvalidScenarioError, type ScenarioProblem } from '../../src/errors.js';
 import { parseScenario, validateScenario } from '../../src/model/validate.js';
@@ -304,7 +305,7 @@ describe('parseScenario: one problem at a time, each with its JSON path', () => 
       expect.unreachable();
     } catch (e) {
       const err = e as InvalidScenarioError;
-      expect(err.exitCode).toBe(2);
+      expect(exitCodeOf(err)).toBe(2);
       expect(err.source).toBe('scenarios/pool.json');
       expect(err.message.split('\n')).toEqual([
         'scenarios/pool.json: 2 problems',

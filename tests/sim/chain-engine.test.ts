@@ -39,13 +39,13 @@ function reference(model: SimModel, policy: PolicyName, rank: Int32Array, seed: 
     const head = (c: { j: number }): number => queues[c.j]![0]!;
     let pick = cands[0]!;
     if (policy === 'fcfm') for (const c of cands) pick = head(c) < head(pick) ? c : pick;
-    else if (policy === 'longest') {
+    else if (policy === 'most-waiting') {
       for (const c of cands) {
         const lc = queues[c.j]!.length;
         const lp = queues[pick.j]!.length;
         if (lc > lp || (lc === lp && head(c) < head(pick))) pick = c;
       }
-    } else if (policy === 'priority') {
+    } else if (policy === 'ranked') {
       for (const c of cands) if (rank[c.j]! < rank[pick.j]! || (rank[c.j] === rank[pick.j] && head(c) < head(pick))) pick = c;
     } else if (cands.length > 1) pick = cands[Math.floor((nextUint32(rng) * cands.length) / 4294967296)]!;
     const born = queues[pick.j]!.shift()!;
@@ -82,7 +82,7 @@ describe('patient engine = plain reference, arrival by arrival', () => {
     it.each(POLICIES.map((p) => ({ policy: p })))(`${label}: $policy`, ({ policy }) => {
       const order = [3, 1, 4, 0, 2].filter((k) => k < model.n);
       const sim = buildSimModel(model, { policy, priority: order });
-      const rank = policy === 'priority' ? priorityRanks(model.n, order) : new Int32Array(model.n);
+      const rank = policy === 'ranked' ? priorityRanks(model.n, order) : new Int32Array(model.n);
       const N = 30_000;
       const ref = reference(sim, policy, rank, 4242, N);
       const engine = new ChainEngine(sim, seedState(4242), 1e9);

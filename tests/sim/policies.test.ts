@@ -10,7 +10,7 @@ import { expectInside, familyFactor } from './support/intervals.js';
  *  1. Any two distinct classes are compatible, so all waiting items belong to one class k; if k ∈ S,
  *     at most one (a second k would match it). States: ∅, and (k, j) = j ≥ 1 items of class k.
  *  2. In (k, j) an arrival of another class (total rate Λ − λ_k) finds class k as its only non-empty
- *     compatible class, so EVERY policy (fcfm, longest, priority, random) takes class k, and takes its
+ *     compatible class, so EVERY policy (fcfm, most-waiting, ranked, random-class) takes class k, and takes its
  *     oldest item: (k, j) → (k, j − 1). An arrival of k: k ∉ S → (k, j + 1) at rate λ_k; k ∈ S → ∅.
  *  3. The chain is a star of birth–death arms around ∅, hence reversible (detailed balance per arm):
  *     k ∉ S: π(k, j) = π(∅) ρ_k^j, ρ_k = λ_k / (Λ − λ_k) (geometric queue, needs ρ_k < 1);
@@ -72,7 +72,7 @@ describe('complete graphs: every policy gives the hand-derived closed form', () 
   it.each(POLICIES.map((policy) => ({ policy })))('$policy', async ({ policy }) => {
     const r = await simulate(model, {
       policy: policy as PolicyName,
-      ...(policy === 'priority' ? { priority: ['north', 'west', 'south', 'east'] } : {}),
+      ...(policy === 'ranked' ? { priority: ['north', 'west', 'south', 'east'] } : {}),
       arrivals: 400_000,
       replications: R,
       seed: 101,
@@ -114,7 +114,7 @@ describe('complete graphs: every policy gives the hand-derived closed form', () 
  *                  hub → (i−1, j) or (i, j−1), chosen by the policy among the non-empty leaves
  *                  (priority [a, b]: a first; random: each with probability 1/2 when both wait).
  */
-function starChain(l: { hub: number; a: number; b: number }, policy: 'priority' | 'random', K: number) {
+function starChain(l: { hub: number; a: number; b: number }, policy: 'ranked' | 'random-class', K: number) {
   const idx = (i: number, j: number): number => 1 + i * (K + 1) + j; // 0 = H, 1 = ∅ = (0, 0)
   const N = 1 + (K + 1) * (K + 1);
   const A = Matrix.zeros(N, N); // Qᵀ
@@ -135,7 +135,7 @@ function starChain(l: { hub: number; a: number; b: number }, policy: 'priority' 
       }
       if (i < K) add(s, idx(i + 1, j), l.a);
       if (j < K) add(s, idx(i, j + 1), l.b);
-      const pa = i === 0 ? 0 : j === 0 ? 1 : policy === 'priority' ? 1 : 0.5;
+      const pa = i === 0 ? 0 : j === 0 ? 1 : policy === 'ranked' ? 1 : 0.5;
       takeA[s] = pa;
       if (pa > 0) add(s, idx(i - 1, j), l.hub * pa);
       if (pa < 1) add(s, idx(i, j - 1), l.hub * (1 - pa));
@@ -177,13 +177,13 @@ function starChain(l: { hub: number; a: number; b: number }, policy: 'priority' 
 describe('priority and random against the solved continuous-time chain (ml-matrix)', () => {
   const l = { hub: 3, a: 1, b: 0.8 };
   const model: CompiledModel = compileGraph(['station', 'north-suburb', 'south-suburb'], [l.hub, l.a, l.b], [[0, 0], [0, 1], [0, 2]]);
-  it.each(['priority', 'random'] as const)('%s', async (policy) => {
+  it.each(['ranked', 'random-class'] as const)('%s', async (policy) => {
     const exact = starChain(l, policy, 26);
     expect(exact.boundary).toBeLessThan(1e-6);
     const R = 8;
     const r = await simulate(model, {
       policy,
-      ...(policy === 'priority' ? { priority: ['north-suburb', 'south-suburb'] } : {}),
+      ...(policy === 'ranked' ? { priority: ['north-suburb', 'south-suburb'] } : {}),
       arrivals: 400_000,
       replications: R,
       seed: 77,
@@ -198,8 +198,8 @@ describe('priority and random against the solved continuous-time chain (ml-matri
 
   it('the priority order matters: the preferred suburb waits less than under the reverse order', async () => {
     const opts = { arrivals: 100_000, replications: 4, seed: 5 } as const;
-    const first = await simulate(model, { ...opts, policy: 'priority', priority: ['north-suburb', 'south-suburb'] });
-    const second = await simulate(model, { ...opts, policy: 'priority', priority: ['south-suburb', 'north-suburb'] });
+    const first = await simulate(model, { ...opts, policy: 'ranked', priority: ['north-suburb', 'south-suburb'] });
+    const second = await simulate(model, { ...opts, policy: 'ranked', priority: ['south-suburb', 'north-suburb'] });
     expect(first.wait.byClass[1]!.ci95![1]).toBeLessThan(second.wait.byClass[1]!.ci95![0]);
     expect(second.wait.byClass[2]!.ci95![1]).toBeLessThan(first.wait.byClass[2]!.ci95![0]);
   });

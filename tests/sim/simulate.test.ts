@@ -103,8 +103,8 @@ describe('options', () => {
     await expect(simulate(model, { arrivals: 0 })).rejects.toBeInstanceOf(UsageError);
     await expect(simulate(model, { replications: 1.5 })).rejects.toBeInstanceOf(UsageError);
     await expect(simulate(model, { seed: -1 })).rejects.toBeInstanceOf(UsageError);
-    await expect(simulate(model, { policy: 'priority' })).rejects.toThrow(/priority list/);
-    await expect(simulate(model, { policy: 'priority', priority: ['gold', 'nobody'] })).rejects.toThrow(/unknown class "nobody"/);
+    await expect(simulate(model, { policy: 'ranked' })).rejects.toThrow(/needs a ranking/);
+    await expect(simulate(model, { policy: 'ranked', priority: ['gold', 'nobody'] })).rejects.toThrow(/unknown class "nobody"/);
     await expect(simulate(model, { policy: 'fcfm', priority: ['gold'] })).rejects.toThrow(/only applies/);
     await expect(simulate(model, { policy: 'oldest' as never })).rejects.toThrow(/unknown policy/);
   });

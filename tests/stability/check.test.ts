@@ -1,3 +1,4 @@
+import { exitCodeOf } from '../../src/cli/exit.js';
 import { describe, expect, it } from 'vitest';
 import { compileGraph, type CompiledModel } from '../../src/model/compile.js';
 import { assertStable, checkStability } from '../../src/stability/check.js';
@@ -304,7 +305,7 @@ describe('hand-derived cases', () => {
       assertStable(model, 'hour');
     } catch (e) {
       expect((e as UnstableDesignError).message).toBe('unstable: items from north and east (18.0/hour) can only be matched with centre (15.5/hour)');
-      expect((e as UnstableDesignError).exitCode).toBe(3);
+      expect(exitCodeOf(e)).toBe(3);
     }
   });
 

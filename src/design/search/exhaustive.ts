@@ -8,6 +8,7 @@ import { admissibleBeforeEvaluation } from '../space/problem.js';
 import type { DesignEvaluator, DesignRecord } from '../scoring/evaluator.js';
 import { paretoFront } from '../space/pareto.js';
 import { SearchState } from './local-search.js';
+import { SearchStopped } from '../scoring/scorer.js';
 
 /** Largest number of toggles `--exhaustive` accepts. */
 export const MAX_EXHAUSTIVE_TOGGLES = 20;
@@ -19,6 +20,8 @@ export interface ExhaustiveResult {
   readonly designs: number;
   /** Designs within the budget and maxCompatibilities (all scored). */
   readonly withinLimits: number;
+  /** True when stopped (SIGINT) before every design was scored. */
+  readonly stopped: boolean;
 }
 
 export async function exhaustiveSearch(evaluator: DesignEvaluator, batchSize = 4096): Promise<ExhaustiveResult> {
@@ -30,18 +33,24 @@ export async function exhaustiveSearch(evaluator: DesignEvaluator, batchSize = 4
   const total = 2 ** k;
   let within = 0;
   let batch: Uint8Array[] = [];
-  for (let mask = 0; mask < total; mask++) {
-    const d = new Uint8Array(k);
-    for (let j = 0; j < k; j++) d[j] = (mask >>> j) & 1;
-    if (!admissibleBeforeEvaluation(problem, d)) continue;
-    within++;
-    batch.push(d);
-    if (batch.length >= batchSize) {
-      await evaluator.evaluate(batch);
-      batch = [];
+  try {
+    for (let mask = 0; mask < total; mask++) {
+      const d = new Uint8Array(k);
+      for (let j = 0; j < k; j++) d[j] = (mask >>> j) & 1;
+      if (!admissibleBeforeEvaluation(problem, d)) continue;
+      within++;
+      batch.push(d);
+      if (batch.length >= batchSize) {
+        await evaluator.evaluate(batch);
+        batch = [];
+      }
     }
+    await evaluator.evaluate(batch);
+  } catch (e) {
+    if (!(e instanceof SearchStopped)) throw e;
+    const state = new SearchState(evaluator);
+    return { front: paretoFront(state.pool()), harmful: state.harmful, designs: total, withinLimits: within, stopped: true };
   }
-  await evaluator.evaluate(batch);
   // Every design obtained by dropping a paid toggle costs less and has fewer compatibilities, so it
   // was scored too: every verdict is known. Refuse front designs until the front is clean.
   const state = new SearchState(evaluator);
@@ -54,6 +63,6 @@ export async function exhaustiveSearch(evaluator: DesignEvaluator, batchSize = 4
       state.judge(r);
       if (state.harmful.has(r.key)) refused = true;
     }
-    if (!refused) return { front, harmful: state.harmful, designs: total, withinLimits: within };
+    if (!refused) return { front, harmful: state.harmful, designs: total, withinLimits: within, stopped: false };
   }
 }

@@ -24,6 +24,7 @@ import { admissibleBeforeEvaluation, designKey, type DesignProblem } from '../sp
 import type { DesignEvaluator, DesignRecord, Origin } from '../scoring/evaluator.js';
 import { comparePoints, paretoFront, paretoLayers } from '../space/pareto.js';
 import { penaltyVerdict } from '../space/penalty.js';
+import { SearchStopped } from '../scoring/scorer.js';
 
 export interface SearchOptions {
   /** Pareto layers expanded (default 2). */
@@ -45,6 +46,8 @@ export interface SearchResult {
   readonly rounds: number;
   /** Kicks tried. */
   readonly kicks: number;
+  /** True when the search was stopped (SIGINT) before it finished: the front is what was found so far. */
+  readonly stopped: boolean;
 }
 
 /** Neighbours of a design that respect the budget and maxCompatibilities: flips, then swaps. */
@@ -151,7 +154,29 @@ export async function paretoLocalSearch(evaluator: DesignEvaluator, seeds: reado
   let kicksLeft = options.kicks ?? problem.toggles.length;
   let kicks = 0;
   const state = new SearchState(evaluator);
-  await evaluator.evaluate(seeds.filter((d) => admissibleBeforeEvaluation(problem, d)));
+  let rounds = 0;
+  try {
+    await evaluator.evaluate(seeds.filter((d) => admissibleBeforeEvaluation(problem, d)));
+    rounds = await searchRounds(evaluator, state, options, depth, swapLayers, targets, kicksLeft, (k) => (kicks += k));
+  } catch (e) {
+    if (!(e instanceof SearchStopped)) throw e;
+    return { front: paretoFront(state.pool()), harmful: state.harmful, rounds, kicks, stopped: true };
+  }
+  return { front: paretoFront(state.pool()), harmful: state.harmful, rounds, kicks, stopped: false };
+}
+
+/** The expansion rounds of the search (see paretoLocalSearch); returns how many ran. */
+async function searchRounds(
+  evaluator: DesignEvaluator,
+  state: SearchState,
+  options: SearchOptions,
+  depth: number,
+  swapLayers: number,
+  targets: boolean,
+  kicksLeft: number,
+  addKicks: (k: number) => void,
+): Promise<number> {
+  const problem = evaluator.problem;
   let rounds = 0;
   for (;;) {
     const layers = paretoLayers(state.pool(), depth);
@@ -170,7 +195,7 @@ export async function paretoLocalSearch(evaluator: DesignEvaluator, seeds: reado
       if (kicksLeft <= 0) break;
       const batch = kickDesigns(problem, layers[0] ?? [], Math.min(kicksLeft, 8), options.random, (key) => evaluator.has(key));
       kicksLeft -= Math.max(batch.length, 1);
-      kicks += batch.length;
+      addKicks(batch.length);
       if (batch.length > 0) await evaluator.evaluate(batch);
       continue;
     }
@@ -194,5 +219,5 @@ export async function paretoLocalSearch(evaluator: DesignEvaluator, seeds: reado
       state.judge(r);
     }
   }
-  return { front: paretoFront(state.pool()), harmful: state.harmful, rounds, kicks };
+  return rounds;
 }

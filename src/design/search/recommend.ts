@@ -13,7 +13,7 @@
  *
  * Indices only: ids are attached in src/report/recommendation.ts.
  */
-import { InfeasibleDesignError, UsageError } from '../../errors.js';
+import { InfeasibleDesignError, InterruptedError, UsageError } from '../../errors.js';
 import { compileGraph } from '../../model/compile.js';
 import { evaluateExact } from '../../exact/evaluate.js';
 import { checkStability } from '../../stability/check.js';
@@ -24,9 +24,9 @@ import { exhaustiveSearch, MAX_EXHAUSTIVE_TOGGLES } from './exhaustive.js';
 import { paretoLocalSearch } from './local-search.js';
 import { budgetLadder, cheapestStableDesign, maxMinFlowDesign, type MilpDesign } from './milp.js';
 import { objectiveValue, type ObjectiveName } from '../space/objective.js';
-import { frontValueAt } from '../space/pareto.js';
+import { frontValueAt, paretoFront } from '../space/pareto.js';
 import { penaltyBatch, penaltyVerdict } from '../space/penalty.js';
-import { createScorer, workerScriptUrl } from '../scoring/scorer.js';
+import { createScorer, inThreadScorer, SearchStopped, workerScriptUrl } from '../scoring/scorer.js';
 import type { ReuseMode } from '../scoring/reuse.js';
 import {
   degreesAllowed,
@@ -77,8 +77,13 @@ export interface RecommendOptions {
    * own figures; every returned figure comes from a fresh evaluation.
    */
   readonly reuse?: ReuseMode;
-  /** Compiled scoring worker; null forces scoring in the calling thread. Default: next to pool.js. */
+  /** Compiled scoring worker; null forces scoring in the calling thread. Default: the worker pool's. */
   readonly workerUrl?: URL | null;
+  /**
+   * Stops the search (SIGINT): the result is then the Pareto set of what was scored so far, marked
+   * `partial` (designs not yet checked by the flexibility penalty included).
+   */
+  readonly signal?: AbortSignal;
 }
 
 /** Exact figures of a design on the front or of a baseline. */
@@ -139,6 +144,8 @@ export interface Recommendation {
   readonly harmfulRefused: number;
   /** How scoring ran (not part of any output: it must not change results). */
   readonly scoring: 'workers' | 'in-thread';
+  /** True when the search was stopped before it finished. */
+  readonly partial: boolean;
 }
 
 /** "add a–b, c–d; drop e–f" for messages. */
@@ -216,10 +223,11 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
   }
   const spec = scoreSpecOf(problem, objective, options.maxSets);
   const url = options.workerUrl === null ? undefined : (options.workerUrl ?? workerScriptUrl());
-  const scorer = createScorer(spec, options.jobs ?? 1, url);
+  const scorer = createScorer(spec, options.jobs ?? 1, url, options.signal);
   let phase: RecommendProgress['phase'] = 'milp';
   const evaluator = new DesignEvaluator(problem, objective, scorer, (p) => options.onProgress?.({ phase, ...p }), options.reuse ?? 'auto');
   const solve = { timeLimitSeconds: options.milpTimeLimitSeconds ?? 30 };
+  const stopped = (): boolean => options.signal?.aborted === true;
   try {
     options.onProgress?.({ phase, scored: 0, evaluations: 0 });
     const cheapest = cheaperOf(await cheapestStableDesign(problem, solve), todayIfStable(problem));
@@ -235,30 +243,47 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
         `no stable design within the budget of ${problem.budget}: the cheapest stable design costs ${cheapest.cost} (${describeChanges(problem, cheapest.design)})`,
       );
     }
-    const high = Math.min(problem.budget, fullCost(problem));
-    const levels = budgetLadder(cheapest.cost, Math.max(cheapest.cost, high), options.ladderLevels ?? 5);
-    const ladder: Array<{ budget: number; design: MilpDesign | undefined }> = [];
-    for (const b of levels) ladder.push({ budget: b, design: await maxMinFlowDesign(problem, b, solve) });
     const base = buildBaselines(problem);
-    const seeds = [Uint8Array.from(problem.today), cheapest.design, ...ladder.flatMap((l) => (l.design ? [l.design.design] : [])), ...base.map((b) => b.design)];
-
-    let front: DesignRecord[];
-    let harmful: ReadonlyMap<string, number[]>;
-    if (options.exhaustive) {
-      phase = 'exhaustive';
-      ({ front, harmful } = await exhaustiveSearch(evaluator));
-    } else {
-      phase = 'search';
-      ({ front, harmful } = await paretoLocalSearch(evaluator, seeds, {
-        random: seededRandom(options.seed ?? 1),
-        depth: options.depth ?? (objective === 'max-wait' ? 4 : 2),
-        ...(options.kicks === undefined ? {} : { kicks: options.kicks }),
-        ...(options.swapLayers === undefined ? {} : { swapLayers: options.swapLayers }),
-      }));
+    const ladder: Array<{ budget: number; design: MilpDesign | undefined }> = [];
+    let front: DesignRecord[] = [];
+    let harmful: ReadonlyMap<string, number[]> = new Map();
+    let partial = false;
+    try {
+      // something to show early: today's design and the cheapest stable one
+      await evaluator.evaluate([Uint8Array.from(problem.today), cheapest.design].filter((d) => withinBudget(problem, d) && degreesAllowed(problem, d)));
+      const high = Math.min(problem.budget, fullCost(problem));
+      const levels = budgetLadder(cheapest.cost, Math.max(cheapest.cost, high), options.ladderLevels ?? 5);
+      for (const b of levels) {
+        if (stopped()) throw new SearchStopped();
+        ladder.push({ budget: b, design: await maxMinFlowDesign(problem, b, solve) });
+      }
+      if (stopped()) throw new SearchStopped();
+      const seeds = [Uint8Array.from(problem.today), cheapest.design, ...ladder.flatMap((l) => (l.design ? [l.design.design] : [])), ...base.map((b) => b.design)];
+      if (options.exhaustive) {
+        phase = 'exhaustive';
+        const r = await exhaustiveSearch(evaluator);
+        ({ front, harmful } = r);
+        partial = r.stopped;
+      } else {
+        phase = 'search';
+        const r = await paretoLocalSearch(evaluator, seeds, {
+          random: seededRandom(options.seed ?? 1),
+          depth: options.depth ?? (objective === 'max-wait' ? 4 : 2),
+          ...(options.kicks === undefined ? {} : { kicks: options.kicks }),
+          ...(options.swapLayers === undefined ? {} : { swapLayers: options.swapLayers }),
+        });
+        ({ front, harmful } = r);
+        partial = r.stopped;
+      }
+    } catch (e) {
+      if (!(e instanceof SearchStopped)) throw e;
+      partial = true;
+      front = paretoFront([...evaluator.records()].filter((r) => r.feasible));
     }
     const evaluations = evaluator.evaluations;
     const scored = evaluator.scored;
     if (front.length === 0) {
+      if (partial) throw new InterruptedError('interrupted before any design within the budget was scored');
       throw new InfeasibleDesignError(
         `no design within the budget of ${problem.budget} meets every waitTarget (and passes the flexibility penalty); ` +
           `the cheapest stable design costs ${cheapest.cost} (${describeChanges(problem, cheapest.design)})`,
@@ -267,14 +292,16 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
 
     phase = 'details';
     const pareto = front.map((r) => designDetails(problem, objective, r.design, options.maxSets));
-    // Baselines: scored (with the neighbours their penalty needs) outside the search's count.
-    const baseRecords = await evaluator.evaluate(base.map((b) => b.design));
+    // Baselines: scored (with the neighbours their penalty needs) outside the search's count; an
+    // interrupted run scores them in this thread, without the workers it has stopped.
+    const after = partial ? new DesignEvaluator(problem, objective, inThreadScorer(spec), undefined, 'never') : evaluator;
+    const baseRecords = await after.evaluate(base.map((b) => b.design));
     const neighbours = penaltyBatch(problem, baseRecords);
-    await evaluator.evaluate(neighbours.designs, neighbours.origins);
+    if (!partial) await after.evaluate(neighbours.designs, neighbours.origins);
     const results: BaselineResult[] = base.map((b, i) => {
       const rec = baseRecords[i]!;
       const details = designDetails(problem, objective, b.design, options.maxSets);
-      const verdict = rec.stable ? penaltyVerdict(problem, b.design, rec.objective, (key) => evaluator.get(key)) : { known: true, harmful: [] };
+      const verdict = rec.stable ? penaltyVerdict(problem, b.design, rec.objective, (key) => after.get(key)) : { known: true, harmful: [] };
       const inBudget = withinBudget(problem, b.design);
       const inLimits = degreesAllowed(problem, b.design);
       const feasible = details.stable && inBudget && inLimits && rec.meetsTargets;
@@ -305,6 +332,7 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       milp: { cheapest, ladder },
       harmfulRefused: harmful.size,
       scoring: scorer.mode,
+      partial,
     };
   } finally {
     await scorer.close();

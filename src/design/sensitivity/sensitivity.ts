@@ -1,15 +1,15 @@
 /**
- * The exact effect of every single change of a design: each candidate compatibility added (with
- * `allPairs`: every absent pair, self-pairs included) and each existing compatibility removed, one at
- * a time. Every entry is an exact FCFM evaluation of the changed design, computed incrementally from
- * the base (src/exact/single-change.ts: only the independent sets holding an endpoint of the change
- * are recomputed), flagged, explained by the base design's bottleneck, and ranked by benefit per unit
- * of money (change-ranking.ts).
+ * The exact effect of every single change of a design: the changes it is given (each a pair added
+ * or removed, with its price and whether the scenario's rules allow it), one at a time. Every entry
+ * is an exact FCFM evaluation of the changed design, computed incrementally from the base
+ * (src/exact/single-change.ts: only the independent sets holding an endpoint of the change are
+ * recomputed), flagged, explained by the base design's bottleneck, and ranked: changes the rules
+ * allow first, then by benefit per unit of money (change-ranking.ts). Which changes to try and what
+ * the rules say is the caller's (src/usecases/sensitivity.ts builds them from the scenario).
  */
 import type { InstabilityCertificate } from '../../errors.js';
 import { EdgewiseError, UnstableDesignError } from '../../errors.js';
-import { compileGraph, edgePairs, findEdge, type CompiledModel } from '../../model/compile.js';
-import type { Scenario } from '../../model/scenario.js';
+import { compileGraph, edgePairs, type CompiledModel } from '../../model/compile.js';
 import { singleChangeEvaluator, type ChangeResult } from '../../exact/single-change.js';
 import { checkStability } from '../../stability/check.js';
 import { certificateWithIds } from '../../stability/certificate.js';
@@ -26,15 +26,7 @@ export interface SensitivityOptions {
   readonly onProgress?: (done: number, total: number) => void;
 }
 
-export interface SensitivityEntry {
-  readonly kind: 'add' | 'remove';
-  /** The pair, class indices a <= b (a = b: a self-loop). */
-  readonly a: number;
-  readonly b: number;
-  /** Cost of the addition or saving of the removal; undefined for a pair that is not a candidate. */
-  readonly price: number | undefined;
-  /** Addition: listed among the scenario's candidates. Removal: marked removable. */
-  readonly listed: boolean;
+export interface SensitivityEntry extends ChangeSpec {
   /** Stable after the change (null when it could not be evaluated, see `skipped`). */
   readonly stable: boolean | null;
   /** Mean total backlog after the change (Infinity when unstable, NaN when skipped). */
@@ -78,46 +70,36 @@ export interface SensitivityResult {
 /** |delta| at or below this fraction of the base backlog counts as "no change" (rounding level). */
 export const EQUAL_RELATIVE = 1e-9;
 
-interface Job {
+/** The rule of the scenario that forbids a change. */
+export type ChangeRule = 'forbidden' | 'fixed' | 'must-keep' | 'limit';
+
+/** One change to try. */
+export interface ChangeSpec {
   readonly kind: 'add' | 'remove';
+  /** Class indices, a <= b (a = b: a self-loop). */
   readonly a: number;
   readonly b: number;
+  /** Cost of the addition or saving of the removal; undefined when the scenario prices it not. */
   readonly price: number | undefined;
+  /** Addition: a candidate of the scenario. Removal: a compatibility the scenario lets the designer drop. */
   readonly listed: boolean;
+  /** The scenario's rules allow the change. */
+  readonly allowed: boolean;
+  readonly rule?: ChangeRule;
+  /** Why the rule is there, when the scenario says. */
+  readonly reason?: string;
 }
 
+type Job = ChangeSpec;
+
 /** Throws UnstableDesignError when the base design is unstable. */
-export function sensitivity(scenario: Scenario, model: CompiledModel, options: SensitivityOptions = {}): SensitivityResult {
-  const timeUnit = options.timeUnit ?? scenario.timeUnit;
+export function sensitivity(model: CompiledModel, jobs: readonly ChangeSpec[], options: SensitivityOptions = {}): SensitivityResult {
+  const timeUnit = options.timeUnit ?? 'time unit';
   const stability = checkStability(model);
   if (!stability.stable) throw new UnstableDesignError(certificateWithIds(model, stability.certificate!), timeUnit);
   const bottlenecks = bottlenecksOf(model, stability);
   const evaluator = singleChangeEvaluator(model, { ...(options.maxSets === undefined ? {} : { maxSets: options.maxSets }), timeUnit });
   const base = evaluator.base;
-
-  const idx = (id: string): number => model.index.get(id)!;
-  const jobs: Job[] = [];
-  const listed = new Set<number>();
-  const key = (a: number, b: number): number => Math.min(a, b) * model.n + Math.max(a, b);
-  for (const c of scenario.candidates) {
-    const a = idx(c.pair[0]);
-    const b = idx(c.pair[1]);
-    listed.add(key(a, b));
-    jobs.push({ kind: 'add', a: Math.min(a, b), b: Math.max(a, b), price: c.cost, listed: true });
-  }
-  if (options.allPairs) {
-    for (let a = 0; a < model.n; a++) {
-      for (let b = a; b < model.n; b++) {
-        if (findEdge(model, a, b) >= 0 || listed.has(key(a, b))) continue;
-        jobs.push({ kind: 'add', a, b, price: undefined, listed: false });
-      }
-    }
-  }
-  for (const c of scenario.compatibilities) {
-    const a = idx(c.pair[0]);
-    const b = idx(c.pair[1]);
-    jobs.push({ kind: 'remove', a: Math.min(a, b), b: Math.max(a, b), price: c.saving, listed: c.removable });
-  }
 
   const tol = EQUAL_RELATIVE * Math.max(base.backlogTotal, Number.MIN_VALUE);
   const entries: SensitivityEntry[] = [];
@@ -163,7 +145,7 @@ export function sensitivity(scenario: Scenario, model: CompiledModel, options: S
     options.onProgress?.(done + 1, jobs.length);
   });
   const sortable = (e: SensitivityEntry) => ({ a: e.a, b: e.b, price: e.price, delta: Math.abs(e.delta) <= tol ? 0 : e.delta });
-  const order = (x: SensitivityEntry, y: SensitivityEntry): number => compareChanges(sortable(x), sortable(y));
+  const order = (x: SensitivityEntry, y: SensitivityEntry): number => (x.allowed === y.allowed ? 0 : x.allowed ? -1 : 1) || compareChanges(sortable(x), sortable(y));
   return {
     base: {
       backlog: base.backlogTotal,

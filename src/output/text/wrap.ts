@@ -4,7 +4,13 @@
  */
 import stringWidth from 'string-width';
 
-export const width = (s: string): number => stringWidth(s);
+/**
+ * Characters string-width counts as emoji (two columns) although terminals draw them one column
+ * wide without an emoji selector: the pair arrow of format.ts among them.
+ */
+const TEXT_PRESENTATION = /\u2194(?!\ufe0f)/g;
+
+export const width = (s: string): number => stringWidth(s.replace(TEXT_PRESENTATION, '-'));
 
 /** Pads to `w` columns (left- or right-aligned). */
 export function pad(s: string, w: number, align: 'left' | 'right'): string {

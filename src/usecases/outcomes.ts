@@ -1,7 +1,7 @@
 /**
  * A design given as changes to today's (pairs added, pairs removed, by class id), evaluated exactly
- * under today's rates and under every demand variant. Used by `report` and `compare` to show the
- * recommender's designs per class and in the worst case; the search itself lives in src/design/.
+ * under today's rates and under every demand variant: what `compare` and `report` show per design
+ * and in the worst case.
  */
 import { describeCertificate, UnstableDesignError } from '../errors.js';
 import { compileGraph, edgePairs, type CompiledModel } from '../model/compile.js';
@@ -11,17 +11,27 @@ import { evaluateExact, type ExactOptions } from '../exact/evaluate.js';
 import type { ExactResult } from '../exact/result.js';
 import { certificateWithIds } from '../stability/certificate.js';
 import { checkStability } from '../stability/check.js';
-import type { Outcome, Pair } from './report-data.js';
+import type { PairIds } from './records.js';
+
+/** One design's outcome under one set of rates. */
+export interface Outcome {
+  readonly stable: boolean;
+  /** Mean total backlog (null when unstable). */
+  readonly backlog: number | null;
+  /** Largest class mean wait and its class (null when unstable). */
+  readonly maxWait: number | null;
+  readonly maxWaitClass: string | null;
+}
 
 /** Today's model with `added` pairs appended and `removed` pairs left out (edge order: kept, then added). */
-export function changedModel(today: CompiledModel, added: readonly Pair[], removed: readonly Pair[], rates: ArrayLike<number> = today.rates): CompiledModel {
+export function changedModel(today: CompiledModel, added: readonly PairIds[], removed: readonly PairIds[], rates: ArrayLike<number> = today.rates): CompiledModel {
   const drop = new Set(removed.map((p) => pairKey(p[0], p[1])));
   const pairs: Array<[number, number]> = [];
   for (const [a, b] of edgePairs(today)) if (!drop.has(pairKey(today.ids[a]!, today.ids[b]!))) pairs.push([a, b]);
   for (const [x, y] of added) {
     const a = today.index.get(x);
     const b = today.index.get(y);
-    if (a === undefined || b === undefined) throw new RangeError(`unknown class in pair ${x}–${y}`);
+    if (a === undefined || b === undefined) throw new RangeError(`unknown class in pair ${x} ↔ ${y}`);
     pairs.push([a, b]);
   }
   return compileGraph(today.ids, rates, pairs);
@@ -30,10 +40,7 @@ export function changedModel(today: CompiledModel, added: readonly Pair[], remov
 /** Exact result, or the sentence saying why the design cannot keep up. */
 export type Evaluated = { readonly stable: true; readonly result: ExactResult } | { readonly stable: false; readonly why: string };
 
-/**
- * Evaluates a compiled design. Instability is decided by checkStability (its certificate explains
- * it); the exact recursion also refuses saturated sets, which is caught the same way.
- */
+/** Evaluates a compiled design; instability is decided by checkStability (its certificate explains it). */
 export function evaluateOrExplain(model: CompiledModel, timeUnit: string, options: ExactOptions = {}): Evaluated {
   const st = checkStability(model);
   if (!st.stable) return { stable: false, why: describeCertificate(certificateWithIds(model, st.certificate!), timeUnit).replace(/^unstable: /, '') };
@@ -46,16 +53,30 @@ export function evaluateOrExplain(model: CompiledModel, timeUnit: string, option
 }
 
 export function outcomeOf(model: CompiledModel, e: Evaluated): Outcome {
-  if (!e.stable) return { stable: false, backlog: NaN, maxWait: NaN, maxWaitClass: '' };
+  if (!e.stable) return { stable: false, backlog: null, maxWait: null, maxWaitClass: null };
   let k = 0;
   for (let i = 1; i < model.n; i++) if (e.result.wait[i]! > e.result.wait[k]!) k = i;
   return { stable: true, backlog: e.result.backlogTotal, maxWait: e.result.wait[k]!, maxWaitClass: model.ids[k]! };
 }
 
 /** The outcome of a design (given by changes) under each variant's rates. */
-export function outcomesUnder(today: CompiledModel, added: readonly Pair[], removed: readonly Pair[], variants: readonly DemandVariant[], timeUnit: string, options: ExactOptions = {}): Outcome[] {
+export function outcomesUnder(today: CompiledModel, added: readonly PairIds[], removed: readonly PairIds[], variants: readonly DemandVariant[], timeUnit: string, options: ExactOptions = {}): Outcome[] {
   return variants.map((v) => {
     const m = changedModel(today, added, removed, v.rates);
     return outcomeOf(m, evaluateOrExplain(m, timeUnit, options));
   });
+}
+
+/** The worst backlog over today's rates and every variant, and where (null backlog: unstable there). */
+export function worstCase(today: Outcome, under: readonly Outcome[], variants: readonly string[]): { backlog: number | null; under: string } {
+  let worst = today.stable ? today.backlog! : Infinity;
+  let where = 'today';
+  under.forEach((o, k) => {
+    const b = o.stable ? o.backlog! : Infinity;
+    if (b > worst) {
+      worst = b;
+      where = variants[k]!;
+    }
+  });
+  return { backlog: Number.isFinite(worst) ? worst : null, under: where };
 }

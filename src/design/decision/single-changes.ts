@@ -1,0 +1,114 @@
+/**
+ * Every single change of one design of a design problem: each toggle flipped (a candidate funded or
+ * given up, a removable compatibility dropped or kept), evaluated exactly by the single-change
+ * evaluator of src/exact/single-change.ts (only the independent sets holding an endpoint are
+ * recomputed), with the objective, the cost and the feasibility of the changed design.
+ *
+ * This is what every verdict of the decision rests on: a verdict is always "this change, measured
+ * against this design".
+ */
+import { EdgewiseError, TooLargeError, UnstableDesignError } from '../../errors.js';
+import { compileGraph } from '../../model/compile.js';
+import { singleChangeEvaluator, type ChangeResult } from '../../exact/single-change.js';
+import { objectiveValue, type ObjectiveName } from '../space/objective.js';
+import { admissibleBeforeEvaluation, designCost, designPairs, type DesignProblem } from '../space/problem.js';
+
+/** What a design does, as far as the decision is concerned. */
+export interface DesignOutcome {
+  readonly stable: boolean;
+  /** Objective (NaN when unstable). */
+  readonly objective: number;
+  /** Mean total backlog (NaN when unstable). */
+  readonly backlog: number;
+  /** Mean wait per class (null when unstable). */
+  readonly wait: Float64Array | null;
+  readonly cost: number;
+  /** Within budget and maxCompatibilities. */
+  readonly admissible: boolean;
+  /** Every class meets its wait target. */
+  readonly meetsTargets: boolean;
+  /** Stable, admissible and meeting every target. */
+  readonly feasible: boolean;
+}
+
+export interface SingleChange extends DesignOutcome {
+  /** The toggle flipped. */
+  readonly toggle: number;
+  /** 'add': the pair is absent from the design and the change puts it in; 'remove': the reverse. */
+  readonly change: 'add' | 'remove';
+  /** objective(changed) − objective(design); Infinity when the change breaks stability. */
+  readonly delta: number;
+  /** backlog(changed) − backlog(design); Infinity when unstable. */
+  readonly backlogDelta: number;
+}
+
+export interface SingleChanges {
+  readonly design: Uint8Array;
+  readonly base: DesignOutcome;
+  readonly changes: readonly SingleChange[];
+  /** Why the changes could not be evaluated (the design is unstable or too large), when so. */
+  readonly skipped?: string;
+}
+
+function outcome(problem: DesignProblem, objective: ObjectiveName, design: ArrayLike<number>, r: ChangeResult | null): DesignOutcome {
+  const cost = designCost(problem, design);
+  const admissible = admissibleBeforeEvaluation(problem, design);
+  if (!r || !r.stable) {
+    return { stable: false, objective: NaN, backlog: NaN, wait: null, cost, admissible, meetsTargets: false, feasible: false };
+  }
+  let meets = true;
+  for (let k = 0; k < problem.n; k++) if (r.wait[k]! > problem.waitTarget[k]! * (1 + 1e-12)) meets = false;
+  const obj = objectiveValue(objective, r.backlogTotal, r.backlog, problem.rates, problem.weight);
+  return { stable: true, objective: obj, backlog: r.backlogTotal, wait: r.wait, cost, admissible, meetsTargets: meets, feasible: admissible && meets };
+}
+
+/** The design with toggle j switched. */
+export function flip(design: ArrayLike<number>, j: number): Uint8Array {
+  const d = Uint8Array.from(design);
+  d[j] = d[j] ? 0 : 1;
+  return d;
+}
+
+/**
+ * The outcome of `design` and of each of its single changes (every toggle, or those listed).
+ * An unstable or too large design gives no changes and says why in `skipped`.
+ */
+export function singleChanges(
+  problem: DesignProblem,
+  objective: ObjectiveName,
+  design: Uint8Array,
+  options: { readonly toggles?: readonly number[]; readonly maxSets?: number } = {},
+): SingleChanges {
+  const model = compileGraph(problem.ids, problem.rates, designPairs(problem, design));
+  let ev;
+  try {
+    ev = singleChangeEvaluator(model, options.maxSets === undefined ? {} : { maxSets: options.maxSets });
+  } catch (e) {
+    if (e instanceof UnstableDesignError) return { design, base: outcome(problem, objective, design, null), changes: [], skipped: 'the design is unstable' };
+    if (e instanceof TooLargeError) return { design, base: outcome(problem, objective, design, null), changes: [], skipped: e.message };
+    throw e;
+  }
+  const base = outcome(problem, objective, design, ev.base);
+  const toggles = options.toggles ?? problem.toggles.map((_, j) => j);
+  const changes: SingleChange[] = [];
+  for (const j of toggles) {
+    const t = problem.toggles[j]!;
+    let r: ChangeResult | null;
+    try {
+      r = ev.toggle(t.a, t.b);
+    } catch (e) {
+      if (e instanceof EdgewiseError) continue; // a joined component beyond the guard: no verdict
+      throw e;
+    }
+    const changed = flip(design, j);
+    const o = outcome(problem, objective, changed, r);
+    changes.push({
+      ...o,
+      toggle: j,
+      change: design[j] ? 'remove' : 'add',
+      delta: o.stable ? o.objective - base.objective : Infinity,
+      backlogDelta: o.stable ? o.backlog - base.backlog : Infinity,
+    });
+  }
+  return { design, base, changes };
+}

@@ -1,0 +1,72 @@
+import type { EvaluateRecord } from '../../usecases/evaluate.js';
+import { count, num, pct, perUnit, rate, setText, wait, waitScale, type WaitScale } from '../format.js';
+import { instabilityBlocks, referenceWords } from './common.js';
+import { para, tableBlock, title, type Block } from './doc.js';
+
+export interface EvaluateTextOptions {
+  readonly costUnit: string | null;
+  /** --wait-unit. */
+  readonly waitUnit?: string;
+}
+
+/** Where each class's matches go: "mage 56 %, archer 44 %" (partners by share of the class's matches). */
+function partners(r: EvaluateRecord, id: string): string {
+  const rows: Array<{ other: string; rate: number }> = [];
+  let sum = 0;
+  for (const m of r.matchRates) {
+    if (m.pair[0] !== id && m.pair[1] !== id) continue;
+    const self = m.pair[0] === m.pair[1];
+    const per = self ? 2 * m.rate : m.rate; // a match within the class involves two of its items
+    rows.push({ other: self ? 'itself' : m.pair[0] === id ? m.pair[1] : m.pair[0], rate: per });
+    sum += per;
+  }
+  rows.sort((a, b) => b.rate - a.rate || (a.other < b.other ? -1 : 1));
+  return rows.map((x) => `${x.other} ${pct(sum > 0 ? x.rate / sum : 0, 0)}`).join(', ');
+}
+
+/** `evaluate` for people. */
+export function evaluateText(r: EvaluateRecord, o: EvaluateTextOptions): Block[] {
+  const blocks: Block[] = [title(`${r.scenario} — exact FCFM steady state of ${referenceWords(r.reference)}`)];
+  if (!r.stable) return [...blocks, ...instabilityBlocks(r.instability!, r.timeUnit, o.costUnit)];
+  const ids = r.classes.map((c) => c.id);
+  const waits = ids.map((id) => r.wait!.byClass[id] ?? NaN);
+  const scale: WaitScale = waitScale(r.timeUnit, waits, o.waitUnit);
+  const hasLabels = r.classes.some((c) => c.label !== null);
+  const u = perUnit(r.timeUnit);
+  const total = r.classes.reduce((a, c) => a + c.rate, 0);
+  blocks.push(
+    tableBlock({
+      columns: [
+        { header: 'class' },
+        ...(hasLabels ? [{ header: 'label', wrap: true, secondary: true }] : []),
+        { header: `rate ${u}`, align: 'right' as const },
+        { header: 'mean backlog', align: 'right' as const },
+        { header: 'mean wait', align: 'right' as const },
+        { header: 'matched at once', align: 'right' as const },
+        { header: 'matched with (share of its matches)', wrap: true, secondary: true },
+      ],
+      rows: [
+        ...r.classes.map((c) => [
+          c.id,
+          ...(hasLabels ? [c.label ?? ''] : []),
+          num(c.rate),
+          num(r.backlog!.byClass[c.id] ?? NaN),
+          wait(r.wait!.byClass[c.id] ?? NaN, scale),
+          pct(r.matchedAtOnce!.byClass[c.id] ?? NaN),
+          partners(r, c.id),
+        ]),
+        ['all classes', ...(hasLabels ? [''] : []), num(total), num(r.backlog!.total), wait(r.wait!.mean, scale), pct(r.matchedAtOnce!.total), ''],
+      ],
+      ruleBefore: [r.classes.length],
+    }),
+  );
+  const b = r.bottleneck;
+  blocks.push(
+    para(
+      `Stable · ${num(r.backlog!.total)} items wait on average · the system is empty ${pct(r.emptyProbability!)} of the time` +
+        (b ? ` · bottleneck ${setText(b.set)} with ${rate(b.spareCapacity, r.timeUnit)} of spare capacity` : '') +
+        ` · ${count(r.independentSets!)} independent sets`,
+    ),
+  );
+  return blocks;
+}

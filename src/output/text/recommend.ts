@@ -1,0 +1,140 @@
+import type { DesignFigures, VerdictRecord } from '../../usecases/designs.js';
+import type { DecisionPart, RecommendRecord } from '../../usecases/recommend.js';
+import { count, money, num, pairText, pct, signed, wait, waitScale, type WaitScale } from '../format.js';
+import { changesText, instabilityBlocks } from './common.js';
+import { para, tableBlock, title, type Block } from './doc.js';
+
+const ADVICE_WORDS: Record<string, string> = {
+  harmful: 'harmful: do not fund',
+  'no effect': 'no effect',
+  'over budget': 'helps, but over the budget',
+  'not allowed': 'helps, but not allowed (limits or targets)',
+  keep: 'keep',
+  'needed for stability': 'keep: needed for stability',
+  'take it': 'take it',
+};
+
+/** The objective's value in words: a backlog, or a wait in the wait scale. */
+function objectiveValue(d: DecisionPart, x: number | null, scale: WaitScale): string {
+  if (x === null) return '—';
+  return d.objective === 'max-wait' ? wait(x, scale) : num(x);
+}
+
+function deltaText(d: DecisionPart, v: VerdictRecord | undefined, scale: WaitScale): string {
+  if (!v) return '—';
+  if (v.delta === null) return v.stable ? '—' : 'unstable';
+  if (d.objective === 'max-wait') return `${v.delta > 0 ? '+' : v.delta < 0 ? '−' : '±'}${wait(Math.abs(v.delta), scale)}`;
+  return signed(v.delta);
+}
+
+/** The verdicts against the recommended design, with the same change measured against today's beside them. */
+export function verdictBlocks(d: DecisionPart, scale: WaitScale): Block[] {
+  const rec = d.verdicts.filter((v) => v.against === 'recommended');
+  if (rec.length === 0) return [];
+  const today = new Map(d.verdicts.filter((v) => v.against === 'today').map((v) => [`${v.pair[0]}\u0001${v.pair[1]}`, v] as const));
+  const order = (v: VerdictRecord): number => (v.change === 'remove' ? 1 : 0);
+  const rows = [...rec].sort((a, b) => order(a) - order(b) || (a.delta ?? Infinity) - (b.delta ?? Infinity)).map((v) => {
+    const t = today.get(`${v.pair[0]}\u0001${v.pair[1]}`);
+    return [
+      `${v.change === 'add' ? 'add' : 'drop'} ${pairText(v.pair)}`,
+      num(v.price),
+      deltaText(d, v, scale),
+      ADVICE_WORDS[v.advice ?? ''] ?? v.advice ?? '',
+      t ? `${t.change === 'add' ? 'add' : 'drop'}: ${deltaText(d, t, scale)}` : '—',
+    ];
+  });
+  return [
+    tableBlock(
+      {
+        columns: [
+          { header: 'single change', wrap: true },
+          { header: 'price', align: 'right' },
+          { header: `Δ ${d.objectiveLabel}`, align: 'right' },
+          { header: 'advice', wrap: true },
+          { header: "same pair from today's design", secondary: true },
+        ],
+        rows,
+      },
+      `Every single change, measured against the recommended design (Δ: the change of the ${d.objectiveLabel}; price: cost of adding or saving of dropping${d.costUnit ? `, in ${d.costUnit}` : ''}; the last column measures the same pair against today's design):`,
+    ),
+  ];
+}
+
+/** "Recommended: … cost …; backlog … (today …)." */
+export function recommendedWords(d: DecisionPart, scale: WaitScale): string {
+  const r = d.recommended;
+  const today = d.today.stable ? objectiveValue(d, d.today.objective, scale) : 'unstable';
+  const changes = r.added.length + r.removed.length === 0 ? "keep today's design" : changesText(r.added, r.removed);
+  return `Recommended (${r.why}): ${changes} · cost ${money(r.cost, d.costUnit)} · ${d.objectiveLabel} ${objectiveValue(d, r.objective, scale)} (today: ${today}).`;
+}
+
+function frontRow(d: DecisionPart, e: DesignFigures & { recommended?: boolean }, i: number, scale: WaitScale): string[] {
+  return [
+    `${e.recommended ? '→ ' : ''}${i + 1}`,
+    num(e.cost),
+    e.backlog === null ? '—' : num(e.backlog),
+    ...(d.objective === 'weighted' ? [e.objective === null ? '—' : num(e.objective)] : []),
+    e.maxWait === null ? '—' : `${wait(e.maxWait, scale)} (${e.maxWaitClass})`,
+    e.spareCapacity === null ? '—' : num(e.spareCapacity),
+    changesText(e.added, e.removed),
+  ];
+}
+
+/** `recommend` for people. */
+export function recommendText(r: RecommendRecord, o: { readonly waitUnit?: string } = {}): Block[] {
+  const scale = waitScale(r.timeUnit, r.pareto.flatMap((e) => (e.maxWait === null ? [] : [e.maxWait])), o.waitUnit);
+  const budget = r.budget === null ? 'no budget limit' : `budget ${money(r.budget, r.costUnit)}`;
+  const blocks: Block[] = [title(`${r.scenario} — designs worth considering (objective: ${r.objectiveLabel}, ${budget})`)];
+  if (r.instability) blocks.push(para("Today's design is unstable."), ...instabilityBlocks(r.instability, r.timeUnit, r.costUnit));
+  blocks.push(
+    tableBlock(
+      {
+        columns: [
+          { header: '#', align: 'right' },
+          { header: 'cost', align: 'right' },
+          { header: 'backlog', align: 'right' },
+          ...(r.objective === 'weighted' ? [{ header: r.objectiveLabel, align: 'right' as const }] : []),
+          { header: 'largest mean wait', align: 'right', secondary: true },
+          { header: 'spare capacity', align: 'right', secondary: true },
+          { header: 'changes from today', wrap: true },
+        ],
+        rows: r.pareto.map((e, i) => frontRow(r, e, i, scale)),
+      },
+      `Pareto set, cheapest first (no design is both cheaper and better${r.partial ? '; INTERRUPTED: what was found so far' : ''}; → the recommended design):`,
+    ),
+  );
+  blocks.push(para(recommendedWords(r, scale)));
+  blocks.push(...verdictBlocks(r, scale));
+  blocks.push(
+    tableBlock(
+      {
+        columns: [
+          { header: 'rule of thumb' },
+          { header: 'cost', align: 'right' },
+          { header: r.objectiveLabel, align: 'right' },
+          { header: 'Pareto set at this cost', align: 'right' },
+          { header: 'gap', align: 'right' },
+          { header: 'how it is built', wrap: true, secondary: true },
+        ],
+        rows: r.baselines.map((b) => {
+          const why = !b.stable ? 'unstable' : !b.withinBudget ? 'over budget' : !b.withinLimits ? 'exceeds maxCompatibilities' : !b.meetsTargets ? 'misses a wait target' : '';
+          const gap = b.gap === null ? why || 'nothing that cheap in the set' : `${num(b.gap)}${b.relativeGap === null ? '' : ` (${pct(b.relativeGap)})`}`;
+          const harmful = b.harmful.length > 0 ? `; pays for harmful ${b.harmful.map((p) => pairText(p)).join(', ')}` : '';
+          return [b.name, num(b.cost), objectiveValue(r, b.objective, scale), b.frontAtCost === null ? '—' : objectiveValue(r, b.frontAtCost, scale), gap, b.note + harmful];
+        }),
+      },
+      'Rules of thumb beside the Pareto set:',
+    ),
+  );
+  const s = r.search;
+  const how = s.exhaustive ? 'every design enumerated' : 'MILP seeds + Pareto local search';
+  blocks.push(
+    para(
+      `${count(s.evaluations)} exact evaluation${s.evaluations === 1 ? '' : 's'}` +
+        (s.designSpace !== null ? ` (${pct(s.evaluations / s.designSpace, 2)} of the ${count(s.designSpace)} possible designs; ${how})` : ` (${how})`) +
+        (s.harmfulRefused > 0 ? ` · ${count(s.harmfulRefused)} design${s.harmfulRefused === 1 ? '' : 's'} refused for paying for a harmful compatibility` : '') +
+        ` · the cheapest stable design costs ${num(s.cheapestStableCost)}`,
+    ),
+  );
+  return blocks;
+}

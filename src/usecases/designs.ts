@@ -1,0 +1,106 @@
+/**
+ * The one record of "a design with its figures" (DesignFigures), made from the design layer's
+ * details, and the verdict records of a decision. Every command that shows a design uses these.
+ */
+import type { DesignDetails } from '../design/search/recommend.js';
+import type { Verdict } from '../design/decision/decide.js';
+import { designChanges, type DesignProblem } from '../design/space/problem.js';
+import { byClass, finite, pairIds, type PairIds } from './records.js';
+import { LP_DIGITS, roundFigure } from '../output/format.js';
+
+export interface DesignFigures {
+  readonly added: PairIds[];
+  /** Dropped compatibilities (forbidden ones that every design drops included). */
+  readonly removed: PairIds[];
+  /** Σ costs of added candidates − Σ savings of dropped compatibilities. */
+  readonly cost: number;
+  readonly stable: boolean;
+  /** How the figures were made. */
+  readonly method: 'exact' | 'simulation';
+  /** Mean total number of items waiting (null when unstable). */
+  readonly backlog: number | null;
+  readonly backlogCi95?: [number, number];
+  /** The objective's value (null when unstable). */
+  readonly objective: number | null;
+  /** The largest class mean wait and its class (null when unstable). */
+  readonly maxWait: number | null;
+  readonly maxWaitClass: string | null;
+  /** Mean wait per class (null when unstable). */
+  readonly waits: Record<string, number | null> | null;
+  /** Spare capacity of the bottleneck, λ(N(I)) − λ(I) (null when unstable or no bottleneck). */
+  readonly spareCapacity: number | null;
+  /** The least flow on a compatibility, maximised over edge flows: how far from the stability boundary (null when unstable). */
+  readonly flowMargin: number | null;
+  readonly independentSets: number | null;
+}
+
+/** Added and dropped pairs of a design (forced removals of forbidden pairs first among the dropped). */
+export function changePairs(problem: DesignProblem, design: ArrayLike<number>): { added: PairIds[]; removed: PairIds[] } {
+  const { added, removed } = designChanges(problem, design);
+  const t = (j: number): PairIds => pairIds(problem, problem.toggles[j]!.a, problem.toggles[j]!.b);
+  return { added: added.map(t), removed: [...problem.forcedOut.map((f) => pairIds(problem, f.a, f.b)), ...removed.map(t)] };
+}
+
+export function designFigures(problem: DesignProblem, d: DesignDetails): DesignFigures {
+  let maxClass: string | null = null;
+  if (d.wait) {
+    let k = 0;
+    for (let i = 1; i < problem.n; i++) if (d.wait[i]! > d.wait[k]!) k = i;
+    maxClass = problem.ids[k]!;
+  }
+  return {
+    ...changePairs(problem, d.design),
+    cost: d.cost,
+    stable: d.stable,
+    method: 'exact',
+    backlog: d.stable ? finite(d.backlogTotal) : null,
+    objective: d.stable ? finite(d.objective) : null,
+    maxWait: d.stable ? finite(d.maxWait) : null,
+    maxWaitClass: maxClass,
+    waits: d.wait ? byClass(problem.ids, d.wait) : null,
+    spareCapacity: d.stable ? finite(d.bottleneckSlack) : null,
+    flowMargin: d.stable && Number.isFinite(d.minEdgeFlow) ? roundFigure(d.minEdgeFlow, LP_DIGITS) : null,
+    independentSets: d.stable ? d.independentSets : null,
+  };
+}
+
+export interface VerdictRecord {
+  readonly pair: PairIds;
+  /** 'add': the pair is outside the design measured against; 'remove': inside it. */
+  readonly change: 'add' | 'remove';
+  /** The design the change is measured against. */
+  readonly against: 'recommended' | 'today';
+  /** Exact change of the objective (null when the change breaks stability). */
+  readonly delta: number | null;
+  /** Change of the mean total backlog (null when unstable). */
+  readonly backlogDelta: number | null;
+  /** Cost of adding (candidate), or saving of dropping (removable compatibility). */
+  readonly price: number;
+  /** The changed design's cost. */
+  readonly cost: number;
+  readonly stable: boolean;
+  readonly withinBudget: boolean;
+  /** The changed design is within budget, maxCompatibilities and wait targets. */
+  readonly feasible: boolean;
+  readonly effect: Verdict['effect'];
+  /** What to do, only against the recommended design. */
+  readonly advice?: NonNullable<Verdict['advice']>;
+}
+
+export function verdictRecord(problem: DesignProblem, v: Verdict): VerdictRecord {
+  const t = problem.toggles[v.toggle]!;
+  return {
+    pair: pairIds(problem, t.a, t.b),
+    change: v.change,
+    against: v.against,
+    delta: finite(v.delta),
+    backlogDelta: finite(v.backlogDelta),
+    price: t.price,
+    cost: v.cost,
+    stable: v.stable,
+    withinBudget: v.withinBudget,
+    feasible: v.feasible,
+    effect: v.effect,
+    ...(v.advice ? { advice: v.advice } : {}),
+  };
+}

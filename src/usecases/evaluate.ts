@@ -1,0 +1,84 @@
+/**
+ * `evaluate`: the steady state of one design under FCFM — backlog and wait per class, the chance an
+ * arrival is matched at once, the chance the system is empty, and the match rate along every
+ * compatibility — exact, from the product form.
+ */
+import { evaluateExact, DEFAULT_MAX_SETS } from '../exact/evaluate.js';
+import { checkStability } from '../stability/check.js';
+import { certificateWithIds } from '../stability/certificate.js';
+import { supportedDigits } from '../output/format.js';
+import { recordBase, type ScenarioContext } from './context.js';
+import { instabilityOf } from './instability.js';
+import { byClass, idsOf, pairIds, type InstabilityRecord, type PairIds, type RecordBase, type Reference } from './records.js';
+import { exactWarnings } from './warnings.js';
+
+export interface MatchRateRecord {
+  readonly pair: PairIds;
+  /** Matches per time unit along the compatibility. */
+  readonly rate: number;
+  /** Share of all matches. */
+  readonly share: number;
+}
+
+export interface EvaluateRecord extends RecordBase {
+  readonly command: 'evaluate';
+  readonly reference: Reference;
+  readonly stable: boolean;
+  /** How the figures were made. */
+  readonly method: 'exact';
+  readonly independentSets: number | null;
+  /** Mean number of items waiting: in all, and per class. */
+  readonly backlog: { readonly total: number; readonly byClass: Record<string, number | null> } | null;
+  /** Mean wait per class (Little's law), in the time unit; `mean` over all arrivals. */
+  readonly wait: { readonly mean: number; readonly byClass: Record<string, number | null> } | null;
+  /** Probability that an arrival is matched at once (on arrival), per class and over all arrivals. */
+  readonly matchedAtOnce: { readonly total: number; readonly byClass: Record<string, number | null> } | null;
+  /** Probability that no item waits. */
+  readonly emptyProbability: number | null;
+  readonly matchRates: MatchRateRecord[];
+  readonly bottleneck: { readonly set: string[]; readonly spareCapacity: number; readonly capacity: number } | null;
+  readonly instability: InstabilityRecord | null;
+}
+
+export interface EvaluateOptions {
+  readonly maxSets?: number;
+}
+
+export async function evaluateUseCase(ctx: ScenarioContext, options: EvaluateOptions = {}): Promise<EvaluateRecord> {
+  const model = ctx.model;
+  const stability = checkStability(model);
+  const base = { ...recordBase(ctx, 'evaluate', exactWarnings(ctx)), reference: ctx.reference, method: 'exact' as const };
+  if (!stability.stable) {
+    return {
+      ...base,
+      stable: false,
+      independentSets: null,
+      backlog: null,
+      wait: null,
+      matchedAtOnce: null,
+      emptyProbability: null,
+      matchRates: [],
+      bottleneck: null,
+      instability: await instabilityOf(ctx, certificateWithIds(model, stability.certificate!)),
+    };
+  }
+  const r = evaluateExact(model, { maxSets: options.maxSets ?? DEFAULT_MAX_SETS, timeUnit: ctx.scenario.timeUnit });
+  const total = model.totalRate;
+  let atOnce = 0;
+  for (let k = 0; k < model.n; k++) atOnce += model.rates[k]! * r.immediateMatch[k]!;
+  const half = total / 2;
+  const b = stability.bottleneck;
+  return {
+    ...base,
+    precision: supportedDigits(b ? b.slack / b.capacity : null),
+    stable: true,
+    independentSets: r.independentSets,
+    backlog: { total: r.backlogTotal, byClass: byClass(model.ids, r.backlog) },
+    wait: { mean: r.backlogTotal / total, byClass: byClass(model.ids, r.wait) },
+    matchedAtOnce: { total: atOnce / total, byClass: byClass(model.ids, r.immediateMatch) },
+    emptyProbability: r.emptyProbability,
+    matchRates: Array.from({ length: model.m }, (_, e) => ({ pair: pairIds(model, model.edgeA[e]!, model.edgeB[e]!), rate: r.matchRates[e]!, share: r.matchRates[e]! / half })),
+    bottleneck: b ? { set: idsOf(model, b.set), spareCapacity: b.slack, capacity: b.capacity } : null,
+    instability: null,
+  };
+}

@@ -1,0 +1,174 @@
+/**
+ * `recommend` (and the decision `report` and `compare` carry): the cost/objective Pareto set of the
+ * designs within the budget, the recommended design — the one with the lowest objective, made
+ * single-change optimal — every single-change verdict measured against it and against today's
+ * design, the rules of thumb beside the set, and the ways out when today's design is unstable.
+ */
+import { checkStability } from '../stability/check.js';
+import { certificateWithIds } from '../stability/certificate.js';
+import { decide, type Decision } from '../design/decision/decide.js';
+import { objectiveLabel, type ObjectiveName } from '../design/space/objective.js';
+import { paretoFront } from '../design/space/pareto.js';
+import { changeCount } from '../design/space/problem.js';
+import { designDetails, recommend, type DesignDetails, type Recommendation, type RecommendOptions } from '../design/search/recommend.js';
+import type { ScenarioContext } from './context.js';
+import { recordBase } from './context.js';
+import { changePairs, designFigures, verdictRecord, type DesignFigures, type VerdictRecord } from './designs.js';
+import { instabilityOf } from './instability.js';
+import { finite, pairIds, type InstabilityRecord, type PairIds, type RecordBase } from './records.js';
+import { exactWarnings } from './warnings.js';
+import { LP_DIGITS, roundFigure } from '../output/format.js';
+
+export interface ParetoEntry extends DesignFigures {
+  /** True for the recommended design. */
+  readonly recommended: boolean;
+}
+
+export interface BaselineEntry extends DesignFigures {
+  readonly name: string;
+  /** How the design was built. */
+  readonly note: string;
+  readonly withinBudget: boolean;
+  readonly withinLimits: boolean;
+  readonly meetsTargets: boolean;
+  /** Paid compatibilities whose removal alone would lower the objective. */
+  readonly harmful: PairIds[];
+  /** Comparable with the Pareto set: stable, within budget and limits, targets met. */
+  readonly feasible: boolean;
+  /** Best objective of the Pareto set at this cost or below (null when not comparable). */
+  readonly frontAtCost: number | null;
+  /** objective − frontAtCost, and that over the objective. */
+  readonly gap: number | null;
+  readonly relativeGap: number | null;
+}
+
+/** The decision every command tells the same way. */
+export interface DecisionPart {
+  readonly objective: ObjectiveName;
+  readonly objectiveLabel: string;
+  /** null: no budget limit. */
+  readonly budget: number | null;
+  readonly costUnit: string | null;
+  /** The recommended design: the lowest objective within the budget, single-change optimal. */
+  readonly recommended: DesignFigures & { readonly improvements: number; readonly why: string };
+  readonly today: DesignFigures;
+  /** Every single change measured against the recommended design, then against today's. */
+  readonly verdicts: VerdictRecord[];
+}
+
+export interface RecommendRecord extends RecordBase, DecisionPart {
+  readonly command: 'recommend';
+  /** Cheapest first; the objective falls along it. */
+  readonly pareto: ParetoEntry[];
+  readonly baselines: BaselineEntry[];
+  readonly search: {
+    readonly evaluations: number;
+    readonly scored: number;
+    readonly toggles: number;
+    /** 2^toggles (null when beyond 2^53). */
+    readonly designSpace: number | null;
+    readonly exhaustive: boolean;
+    readonly harmfulRefused: number;
+    readonly cheapestStableCost: number;
+    readonly milp: { readonly cheapest: MilpEntry; readonly ladder: Array<{ readonly budget: number; readonly design: MilpEntry | null }> };
+  };
+  /** When today's design is unstable: why, and the ways out. */
+  readonly instability: InstabilityRecord | null;
+  /** True when the search was interrupted: the set is what was found so far. */
+  readonly partial: boolean;
+}
+
+export interface MilpEntry {
+  readonly cost: number;
+  readonly added: PairIds[];
+  readonly removed: PairIds[];
+  readonly flowMargin: number | null;
+  readonly proven: boolean;
+}
+
+export interface RecommendInput extends Omit<RecommendOptions, 'objective'> {
+  readonly objective: ObjectiveName;
+}
+
+/** The Pareto set with the improved recommended design in it. */
+function mergedFront(ctx: ScenarioContext, pareto: readonly DesignDetails[], extra: DesignDetails | undefined): DesignDetails[] {
+  const all = extra ? [...pareto, extra] : [...pareto];
+  const points = all.map((d) => ({ d, cost: d.cost, objective: d.objective, changes: changeCount(ctx.problem, d.design), key: d.key }));
+  return paretoFront(points).map((p) => p.d);
+}
+
+/** Recommendation → the decision: recommended design, verdicts, the front it sits on. */
+export function decisionOf(ctx: ScenarioContext, rec: Recommendation, input: RecommendInput): { decision: Decision | null; pareto: DesignDetails[]; recommended: DesignDetails } {
+  const pick = rec.pareto.reduce((best, d) => (d.objective < best.objective ? d : best));
+  if (rec.partial) return { decision: null, pareto: rec.pareto, recommended: pick };
+  const decision = decide(ctx.problem, input.objective, pick.design, input.maxSets === undefined ? {} : { maxSets: input.maxSets });
+  const same = decision.improvements === 0;
+  const recommended = same ? pick : designDetails(ctx.problem, input.objective, decision.design, input.maxSets);
+  return { decision, pareto: mergedFront(ctx, rec.pareto, same ? undefined : recommended), recommended };
+}
+
+export function decisionPart(ctx: ScenarioContext, input: RecommendInput, parts: ReturnType<typeof decisionOf>, todayDetails: DesignDetails): DecisionPart {
+  const p = ctx.problem;
+  const d = parts.decision;
+  return {
+    objective: input.objective,
+    objectiveLabel: objectiveLabel(input.objective),
+    budget: finite(p.budget),
+    costUnit: ctx.costUnit,
+    recommended: {
+      ...designFigures(p, parts.recommended),
+      improvements: d?.improvements ?? 0,
+      why: `the lowest ${objectiveLabel(input.objective)} within the ${Number.isFinite(p.budget) ? 'budget' : 'candidates'}${d && d.improvements > 0 ? `, after ${d.improvements} single-change improvement${d.improvements === 1 ? '' : 's'} of the search's pick` : ''}`,
+    },
+    today: designFigures(p, todayDetails),
+    verdicts: d ? d.verdicts.map((v) => verdictRecord(p, v)) : [],
+  };
+}
+
+export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInput): Promise<RecommendRecord> {
+  const p = ctx.problem;
+  const todayStability = checkStability(ctx.today);
+  const instability = todayStability.stable ? null : await instabilityOf(ctx, certificateWithIds(ctx.today, todayStability.certificate!));
+  const rec = await recommend(p, input);
+  const parts = decisionOf(ctx, rec, input);
+  const todayDetails = designDetails(p, input.objective, Uint8Array.from(p.today), input.maxSets);
+  const decision = decisionPart(ctx, input, parts, todayDetails);
+  const recommendedKey = parts.recommended.key;
+  const front = parts.pareto;
+  const pair = (j: number): PairIds => pairIds(p, p.toggles[j]!.a, p.toggles[j]!.b);
+  const milpEntry = (m: Recommendation['milp']['cheapest']): MilpEntry => ({ cost: m.cost, ...changePairs(p, m.design), flowMargin: Number.isFinite(m.verifiedMinFlow) ? roundFigure(m.verifiedMinFlow, LP_DIGITS) : null, proven: m.proven });
+  const warnings = [
+    ...exactWarnings(ctx, 'The figures of every design'),
+    rec.partial ? 'interrupted: the Pareto set is what the search had found so far; designs not yet checked for harmful paid compatibilities may be in it, and no verdicts were computed' : null,
+  ];
+  return {
+    ...recordBase(ctx, 'recommend', warnings),
+    ...decision,
+    pareto: front.map((d) => ({ ...designFigures(p, d), recommended: d.key === recommendedKey })),
+    baselines: rec.baselines.map((b) => ({
+      ...designFigures(p, b),
+      name: b.name,
+      note: b.note,
+      withinBudget: b.withinBudget,
+      withinLimits: b.withinLimits,
+      meetsTargets: b.meetsTargets,
+      harmful: b.harmful.map(pair),
+      feasible: b.feasible,
+      frontAtCost: b.feasible ? finite(b.frontValue) : null,
+      gap: finite(b.gap),
+      relativeGap: Number.isFinite(b.gap) && b.objective > 0 ? b.gap / b.objective : null,
+    })),
+    search: {
+      evaluations: rec.evaluations,
+      scored: rec.scored,
+      toggles: rec.toggles,
+      designSpace: rec.toggles <= 53 ? rec.designSpace : null,
+      exhaustive: rec.exhaustive,
+      harmfulRefused: rec.harmfulRefused,
+      cheapestStableCost: rec.milp.cheapest.cost,
+      milp: { cheapest: milpEntry(rec.milp.cheapest), ladder: rec.milp.ladder.map((l) => ({ budget: l.budget, design: l.design ? milpEntry(l.design) : null })) },
+    },
+    instability,
+    partial: rec.partial,
+  };
+}

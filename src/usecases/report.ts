@@ -1,0 +1,250 @@
+/**
+ * `report`: everything the HTML report shows, as one record — the decision `recommend` takes (the
+ * recommended design and every verdict measured against it, today's beside them), today's design
+ * and its match rates, a cheaper alternative, the load sweep of the bottleneck, every shown design
+ * under each demand variant, simulated figures with abandonment when the file gives patience, and
+ * the inputs. `report --json` prints the decision part.
+ */
+import { EdgewiseError, InfeasibleDesignError, TooLargeError } from '../errors.js';
+import { pairKey } from '../model/scenario.js';
+import type { ObjectiveName } from '../design/space/objective.js';
+import { pairRules, recordBase, scenarioContext, type ScenarioContext } from './context.js';
+import type { DesignFigures } from './designs.js';
+import { instabilityOf } from './instability.js';
+import { evaluateOrExplain, outcomesUnder, type Outcome } from './outcomes.js';
+import { recommendUseCase, type RecommendInput, type RecommendRecord } from './recommend.js';
+import { pairIds, setRecord, type InstabilityRecord, type PairIds, type RecordBase, type SetRecord } from './records.js';
+import { simulateUseCase, type SimulateRecord } from './simulate.js';
+import { sweepUseCase, type SweepRecord } from './sweep.js';
+import { checkStability } from '../stability/check.js';
+import { certificateWithIds } from '../stability/certificate.js';
+
+/** A design the report shows, with its outcomes under the demand variants. */
+export interface ShownDesign {
+  readonly role: 'today' | 'recommended' | 'alternative';
+  readonly name: string;
+  readonly figures: DesignFigures;
+  /** In the order of ReportRecord.variants. */
+  readonly underVariants: Outcome[];
+}
+
+export interface SimulatedSummary {
+  readonly role: 'today' | 'recommended';
+  readonly seed: number;
+  readonly replications: number;
+  readonly arrivals: number;
+  readonly backlog: { readonly mean: number | null; readonly ci95: [number, number] | null };
+  readonly abandonShare: { readonly mean: number | null; readonly ci95: [number, number] | null };
+  readonly byClass: Record<string, { readonly wait: number | null; readonly abandonShare: number | null; readonly patience: number | null }>;
+}
+
+export interface InputsRecord {
+  readonly classes: Array<{
+    readonly id: string;
+    readonly label: string | null;
+    readonly rate: number;
+    readonly patience: number | null;
+    readonly weight: number | null;
+    readonly waitTarget: number | null;
+    readonly maxCompatibilities: number | null;
+  }>;
+  readonly compatibilities: Array<{ readonly pair: PairIds; readonly removable: boolean; readonly saving: number; readonly rule: string | null; readonly reason: string | null }>;
+  readonly candidates: Array<{ readonly pair: PairIds; readonly cost: number; readonly rule: string | null; readonly reason: string | null }>;
+  readonly demand: Array<{ readonly name: string; readonly rates: Record<string, number> }>;
+}
+
+export interface ReportRecord extends RecordBase {
+  readonly command: 'report';
+  readonly description: string | null;
+  readonly costUnit: string | null;
+  readonly itemWord: string;
+  readonly budget: number | null;
+  /** The recommender's record (the decision: recommended design, verdicts; the Pareto set; rules of thumb); null when no design is feasible. */
+  readonly decision: RecommendRecord | null;
+  /** Why there is no decision, when there is none. */
+  readonly noDecision: string | null;
+  readonly todayStable: boolean;
+  readonly bottleneck: SetRecord | null;
+  readonly todayInstability: InstabilityRecord | null;
+  /** Today's match rate per compatibility (stable designs). */
+  readonly matchRates: Array<{ readonly pair: PairIds; readonly rate: number }>;
+  readonly designs: ShownDesign[];
+  readonly variants: string[];
+  readonly sweep: SweepRecord | null;
+  /** The single addition the load sweep shows beside the designs, and why. */
+  readonly sweepAddition: { readonly pair: PairIds; readonly why: 'harmful' | 'helpful' } | null;
+  readonly simulated: SimulatedSummary[];
+  readonly inputs: InputsRecord;
+  readonly notes: string[];
+}
+
+export interface ReportInput {
+  readonly objective?: ObjectiveName;
+  readonly jobs: number;
+  readonly seed: number;
+  readonly sweepSteps?: number;
+  readonly onPhase?: (phase: string) => void;
+  /** Arrivals per replication of the simulated figures (patience). */
+  readonly simulationArrivals?: number;
+}
+
+function inputsOf(ctx: ScenarioContext): InputsRecord {
+  const rules = pairRules(ctx.scenario);
+  const ruleOf = (a: string, b: string): { rule: string | null; reason: string | null } => {
+    const r = rules.get(pairKey(a, b));
+    return { rule: r?.kind ?? null, reason: r?.reason ?? null };
+  };
+  const f = ctx.fields;
+  return {
+    classes: ctx.scenario.classes.map((c, k) => ({
+      id: c.id,
+      label: typeof c.label === 'string' && c.label !== '' ? c.label : null,
+      rate: c.rate,
+      patience: c.patience ?? null,
+      weight: f.weight[k] === 1 ? null : f.weight[k]!,
+      waitTarget: Number.isFinite(f.waitTarget[k]!) ? f.waitTarget[k]! : null,
+      maxCompatibilities: Number.isFinite(f.maxCompatibilities[k]!) ? f.maxCompatibilities[k]! : null,
+    })),
+    compatibilities: ctx.scenario.compatibilities.map((c) => ({ pair: [c.pair[0], c.pair[1]] as const, removable: c.removable, saving: c.saving, ...ruleOf(c.pair[0], c.pair[1]) })),
+    candidates: ctx.scenario.candidates.map((c) => ({ pair: [c.pair[0], c.pair[1]] as const, cost: c.cost, ...ruleOf(c.pair[0], c.pair[1]) })),
+    demand: ctx.variants.map((v) => ({ name: v.name, rates: Object.fromEntries(v.changed.map((id) => [id, v.rates[ctx.today.index.get(id)!]!])) })),
+  };
+}
+
+/** A cheaper Pareto design that already gets at least half of the recommended design's improvement. */
+function alternativeOf(rec: RecommendRecord): DesignFigures | null {
+  const best = rec.recommended;
+  if (best.objective === null || rec.today.objective === null) return null;
+  const half = rec.today.objective - 0.5 * (rec.today.objective - best.objective);
+  const cheaper = rec.pareto.filter((d) => d.cost < best.cost && d.objective !== null && d.objective <= half && d.added.length + d.removed.length > 0);
+  return cheaper.sort((a, b) => a.cost - b.cost)[0] ?? null;
+}
+
+function simulatedSummary(role: 'today' | 'recommended', r: SimulateRecord): SimulatedSummary {
+  return {
+    role,
+    seed: r.seed,
+    replications: r.replications,
+    arrivals: r.arrivals,
+    backlog: { mean: r.backlog.total.mean, ci95: r.backlog.total.ci95 },
+    abandonShare: { mean: r.abandonment.total.share.mean, ci95: r.abandonment.total.share.ci95 },
+    byClass: Object.fromEntries(
+      Object.entries(r.abandonment.byClass).map(([id, a]) => [id, { wait: r.wait.byClass[id]!.mean, abandonShare: a.share.mean, patience: a.patience }]),
+    ),
+  };
+}
+
+export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): Promise<ReportRecord> {
+  const phase = input.onPhase ?? ((): void => {});
+  const unit = ctx.scenario.timeUnit;
+  const notes: string[] = [];
+  const variantNames = ctx.variants.map((v) => v.name);
+
+  phase('today');
+  const stability = checkStability(ctx.today);
+  const todayEval = evaluateOrExplain(ctx.today, unit);
+  const todayInstability = stability.stable ? null : await instabilityOf(ctx, certificateWithIds(ctx.today, stability.certificate!));
+
+  phase('recommend');
+  let decision: RecommendRecord | null = null;
+  let noDecision: string | null = null;
+  try {
+    decision = await recommendUseCase(ctx, { objective: input.objective ?? 'total', jobs: input.jobs, seed: 1, ...(input.jobs > 1 ? {} : { workerUrl: null }) } as RecommendInput);
+  } catch (e) {
+    if (e instanceof InfeasibleDesignError) noDecision = e.message;
+    else if (e instanceof TooLargeError) noDecision = `the recommender could not evaluate every design: ${e.message}`;
+    else throw e;
+  }
+
+  phase('designs');
+  const designs: ShownDesign[] = [];
+  const show = (role: ShownDesign['role'], name: string, figures: DesignFigures): void => {
+    designs.push({ role, name, figures, underVariants: outcomesUnder(ctx.today, figures.added, figures.removed, ctx.variants, unit) });
+  };
+  if (decision) {
+    show('today', "today's design", decision.today);
+    if (decision.recommended.added.length + decision.recommended.removed.length > 0) show('recommended', 'the recommended design', decision.recommended);
+    const alt = alternativeOf(decision);
+    if (alt) show('alternative', 'a cheaper option', alt);
+  }
+
+  phase('sweep');
+  let sweep: SweepRecord | null = null;
+  let sweepAddition: ReportRecord['sweepAddition'] = null;
+  if (stability.stable && stability.bottleneck) {
+    const grow = Array.from(stability.bottleneck.set, (k) => ctx.today.ids[k]!);
+    const rec = decision?.recommended;
+    const variants: Array<{ add: PairIds[]; remove: PairIds[] }> = [];
+    if (rec && rec.added.length + rec.removed.length > 0) variants.push({ add: rec.added, remove: rec.removed });
+    const adds = (decision?.verdicts ?? []).filter((v) => v.against === 'recommended' && v.change === 'add' && v.stable && v.delta !== null);
+    const harmful = adds.filter((v) => v.advice === 'harmful').sort((a, b) => b.delta! - a.delta!)[0];
+    const helpful = adds.filter((v) => v.effect === 'lowers').sort((a, b) => a.delta! - b.delta!)[0];
+    const single = harmful ?? helpful;
+    if (single && rec) {
+      variants.push({ add: [...rec.added, single.pair], remove: rec.removed });
+      sweepAddition = { pair: single.pair, why: harmful ? 'harmful' : 'helpful' };
+    }
+    try {
+      sweep = await sweepUseCase(ctx, { grow, variants, steps: input.sweepSteps ?? 12 });
+    } catch (e) {
+      if (e instanceof EdgewiseError) notes.push(`No load sweep: ${e.message}.`);
+      else throw e;
+    }
+  } else if (!stability.stable) notes.push("No load sweep: today's design is unstable.");
+
+  phase('simulate');
+  const simulated: SimulatedSummary[] = [];
+  if (ctx.patience) {
+    const run = async (role: 'today' | 'recommended', c: ScenarioContext): Promise<void> => {
+      const r = await simulateUseCase(c, { policy: 'fcfm', jobs: input.jobs, seed: input.seed, replications: 4, arrivals: input.simulationArrivals ?? 400_000, exactMaxSets: 1 });
+      simulated.push(simulatedSummary(role, r));
+    };
+    await run('today', ctx);
+    const rec = decision?.recommended;
+    if (rec && rec.added.length + rec.removed.length > 0) {
+      const removed = rec.removed.filter((p) => !ctx.problem.forcedOut.some((f) => pairKey(ctx.problem.ids[f.a]!, ctx.problem.ids[f.b]!) === pairKey(p[0], p[1])));
+      await run('recommended', scenarioContext(ctx.scenario, { source: ctx.source, design: { added: rec.added, removed, from: 'the recommendation' } }));
+    }
+  }
+
+  const warnings = [...(decision?.warnings ?? []), ...(ctx.patience && simulated.length > 0 ? ['Patience: the simulated figures beside the exact ones include items giving up (abandonment); the exact figures do not.'] : [])];
+  return {
+    ...recordBase(ctx, 'report', [...new Set(warnings)]),
+    description: ctx.description,
+    costUnit: ctx.costUnit,
+    itemWord: ctx.itemWord,
+    budget: Number.isFinite(ctx.problem.budget) ? ctx.problem.budget : null,
+    decision,
+    noDecision,
+    todayStable: stability.stable,
+    bottleneck: stability.bottleneck ? setRecord(ctx.today, stability.bottleneck) : null,
+    todayInstability,
+    matchRates: todayEval.stable ? Array.from({ length: ctx.today.m }, (_, e) => ({ pair: pairIds(ctx.today, ctx.today.edgeA[e]!, ctx.today.edgeB[e]!), rate: todayEval.result.matchRates[e]! })) : [],
+    designs,
+    variants: variantNames,
+    sweep,
+    sweepAddition,
+    simulated,
+    inputs: inputsOf(ctx),
+    notes,
+  };
+}
+
+/** What `report --json` prints: the decision, measured against the recommended design and today's. */
+export function decisionRecord(r: ReportRecord) {
+  const d = r.decision;
+  return {
+    command: 'report' as const,
+    scenario: r.scenario,
+    timeUnit: r.timeUnit,
+    warnings: r.warnings,
+    costUnit: r.costUnit,
+    budget: r.budget,
+    objective: d?.objective ?? null,
+    recommended: d ? d.recommended : null,
+    today: d ? d.today : null,
+    verdicts: d ? d.verdicts : [],
+    noDecision: r.noDecision,
+    instability: r.todayInstability,
+  };
+}

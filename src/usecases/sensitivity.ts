@@ -1,0 +1,257 @@
+/**
+ * `sensitivity`: the exact effect of every single change of a design (today's, or the one given by
+ * --design), each marked with whether the scenario's rules allow it and, if not, which rule forbids
+ * it. Allowed changes come first; what a rule costs (the backlog a forbidden change would save) is
+ * listed apart. An unstable design gets its ways out instead of a dead end.
+ */
+import { describeCertificate, EdgewiseError, type InstabilityCertificate } from '../errors.js';
+import { compileGraph, edgePairs, findEdge } from '../model/compile.js';
+import { pairKey } from '../model/scenario.js';
+import { evaluateExact } from '../exact/evaluate.js';
+import { checkStability } from '../stability/check.js';
+import { certificateWithIds } from '../stability/certificate.js';
+import { explainEntry } from './explain.js';
+import { sensitivity, type ChangeRule, type ChangeSpec, type SensitivityEntry } from '../design/sensitivity/sensitivity.js';
+import { supportedDigits } from '../output/format.js';
+import { pairRules, recordBase, type ScenarioContext } from './context.js';
+import { instabilityOf } from './instability.js';
+import { byClass, certificateRecord, finite, idsOf, pairIds, type CertificateRecord, type InstabilityRecord, type PairIds, type RecordBase, type Reference, type SetRecord } from './records.js';
+import { exactWarnings } from './warnings.js';
+
+export type ChangeVerdict = 'helps' | 'harmful' | 'no change' | 'worth dropping' | 'raises backlog' | 'breaks stability' | 'makes it stable' | 'still unstable' | 'not evaluated';
+
+export interface ChangeRecord {
+  readonly pair: PairIds;
+  readonly change: 'add' | 'remove';
+  /** The scenario's rules allow this change. */
+  readonly allowed: boolean;
+  /** When not allowed: the rule that forbids it. */
+  readonly rule?: ChangeRule;
+  /** The rule's reason, when the file gives one. */
+  readonly ruleReason?: string;
+  /** Addition: a candidate of the scenario; removal: a compatibility the designer may drop. */
+  readonly listed: boolean;
+  /** Cost of adding, or saving of removing (null: the scenario gives no price). */
+  readonly price: number | null;
+  readonly stable: boolean | null;
+  /** Mean total backlog after the change (null when unstable or not evaluated). */
+  readonly backlog: number | null;
+  /** backlog − the reference design's backlog (null when either is unstable). */
+  readonly delta: number | null;
+  /** delta per unit of price (null when unpriced). */
+  readonly deltaPerPrice: number | null;
+  readonly verdict: ChangeVerdict;
+  /** The near-saturation condition predicts harm (addition) or benefit (removal). */
+  readonly predicted: boolean;
+  readonly relation: 'joins-neighbours' | 'touches' | 'elsewhere' | null;
+  readonly explanation: string;
+  /** Change in each class's mean wait (null when not evaluated or unstable). */
+  readonly waitDelta: Record<string, number | null> | null;
+  readonly certificate?: CertificateRecord;
+  readonly skipped?: string;
+}
+
+export interface RuleCostRecord {
+  readonly pair: PairIds;
+  readonly change: 'add' | 'remove';
+  readonly rule: ChangeRule;
+  readonly ruleReason?: string;
+  /** Backlog the change would save if the rule allowed it (> 0). */
+  readonly backlogSaved: number;
+}
+
+export interface SensitivityRecord extends RecordBase {
+  readonly command: 'sensitivity';
+  /** The design every change is measured against. */
+  readonly reference: Reference;
+  readonly base: {
+    readonly stable: boolean;
+    readonly backlog: number | null;
+    readonly wait: Record<string, number | null> | null;
+    readonly independentSets: number | null;
+    readonly bottlenecks: SetRecord[];
+  };
+  readonly additions: ChangeRecord[];
+  readonly removals: ChangeRecord[];
+  /** What the rules cost: forbidden changes that would lower the backlog, largest saving first. */
+  readonly ruleCosts: RuleCostRecord[];
+  readonly instability: InstabilityRecord | null;
+}
+
+export interface SensitivityInput {
+  /** Try every absent pair (self-pairs included), not only the candidates. */
+  readonly allPairs?: boolean;
+  readonly maxSets?: number;
+}
+
+/** The changes of the reference design, with the rules that allow or forbid each. */
+export function changesOf(ctx: ScenarioContext, allPairs: boolean): ChangeSpec[] {
+  const model = ctx.model;
+  const rules = pairRules(ctx.scenario);
+  const index = model.index;
+  const key = (a: number, b: number): string => pairKey(model.ids[a]!, model.ids[b]!);
+  const ordered = (x: string, y: string): [number, number] => {
+    const a = index.get(x)!;
+    const b = index.get(y)!;
+    return a <= b ? [a, b] : [b, a];
+  };
+  const maxDeg = ctx.fields.maxCompatibilities;
+  const deg = new Int32Array(model.n);
+  for (let e = 0; e < model.m; e++) {
+    deg[model.edgeA[e]!]++;
+    if (model.edgeB[e] !== model.edgeA[e]) deg[model.edgeB[e]!]++;
+  }
+  const overLimit = (a: number, b: number): boolean => deg[a]! + 1 > maxDeg[a]! || (a !== b && deg[b]! + 1 > maxDeg[b]!);
+  const ruleOf = (k: string, kind: 'add' | 'remove'): { rule?: ChangeRule; reason?: string } => {
+    const r = rules.get(k);
+    if (kind === 'add' && r?.kind === 'forbidden') return { rule: 'forbidden', ...(r.reason ? { reason: r.reason } : {}) };
+    if (kind === 'remove' && r?.kind === 'must-keep') return { rule: 'must-keep', ...(r.reason ? { reason: r.reason } : {}) };
+    return {};
+  };
+  const out: ChangeSpec[] = [];
+  const seen = new Set<string>();
+  const add = (a: number, b: number, price: number | undefined, listed: boolean): void => {
+    const k = key(a, b);
+    if (seen.has(k)) return;
+    seen.add(k);
+    const r = ruleOf(k, 'add');
+    const rule: ChangeRule | undefined = r.rule ?? (overLimit(a, b) ? 'limit' : undefined);
+    out.push({ kind: 'add', a, b, price, listed, allowed: rule === undefined, ...(rule ? { rule } : {}), ...(r.reason ? { reason: r.reason } : {}) });
+  };
+  for (const c of ctx.scenario.candidates) {
+    const [a, b] = ordered(c.pair[0], c.pair[1]);
+    if (findEdge(model, a, b) < 0) add(a, b, c.cost, true);
+  }
+  for (const c of ctx.scenario.compatibilities) {
+    const [a, b] = ordered(c.pair[0], c.pair[1]);
+    if (findEdge(model, a, b) < 0) add(a, b, c.saving, true); // dropped by the design: keeping it forgoes its saving
+  }
+  if (allPairs) {
+    for (let a = 0; a < model.n; a++) for (let b = a; b < model.n; b++) if (findEdge(model, a, b) < 0) add(a, b, undefined, false);
+  }
+  const compat = new Map(ctx.scenario.compatibilities.map((c) => [pairKey(c.pair[0], c.pair[1]), c] as const));
+  const cand = new Map(ctx.scenario.candidates.map((c) => [pairKey(c.pair[0], c.pair[1]), c] as const));
+  for (let e = 0; e < model.m; e++) {
+    const a = model.edgeA[e]!;
+    const b = model.edgeB[e]!;
+    const k = key(a, b);
+    const c = compat.get(k);
+    if (c) {
+      const r = ruleOf(k, 'remove');
+      const rule: ChangeRule | undefined = !c.removable ? 'fixed' : r.rule;
+      out.push({ kind: 'remove', a, b, price: c.saving, listed: c.removable, allowed: rule === undefined, ...(rule ? { rule } : {}), ...(r.reason && rule === 'must-keep' ? { reason: r.reason } : {}) });
+    } else {
+      const f = cand.get(k); // a funded candidate: dropping it saves its cost
+      out.push({ kind: 'remove', a, b, price: f?.cost, listed: true, allowed: true });
+    }
+  }
+  return out;
+}
+
+function verdictOf(e: SensitivityEntry): ChangeVerdict {
+  if (e.skipped) return 'not evaluated';
+  if (!e.stable) return 'breaks stability';
+  if (e.kind === 'add') return e.harmful ? 'harmful' : e.delta < 0 ? 'helps' : 'no change';
+  return e.beneficial ? 'worth dropping' : e.delta > 0 ? 'raises backlog' : 'no change';
+}
+
+function ruleFields(s: ChangeSpec): { rule?: ChangeRule; ruleReason?: string } {
+  return { ...(s.rule ? { rule: s.rule } : {}), ...(s.reason ? { ruleReason: s.reason } : {}) };
+}
+
+export async function sensitivityUseCase(ctx: ScenarioContext, input: SensitivityInput = {}): Promise<SensitivityRecord> {
+  const model = ctx.model;
+  const specs = changesOf(ctx, input.allPairs === true);
+  const unit = ctx.scenario.timeUnit;
+  const base = recordBase(ctx, 'sensitivity', exactWarnings(ctx));
+  const stability = checkStability(model);
+  if (!stability.stable) return unstableRecord(ctx, base, specs, certificateWithIds(model, stability.certificate!));
+  const result = sensitivity(model, specs, { ...(input.maxSets === undefined ? {} : { maxSets: input.maxSets }), timeUnit: unit });
+  const bottlenecks = result.base.bottlenecks;
+  const toRecord = (e: SensitivityEntry): ChangeRecord => ({
+    pair: pairIds(model, e.a, e.b),
+    change: e.kind,
+    allowed: e.allowed,
+    ...ruleFields(e),
+    listed: e.listed,
+    price: e.price ?? null,
+    stable: e.stable,
+    backlog: e.stable ? finite(e.backlog) : null,
+    delta: e.stable ? finite(e.delta) : null,
+    deltaPerPrice: e.perUnit === undefined ? null : finite(e.perUnit),
+    verdict: verdictOf(e),
+    predicted: e.predicted,
+    relation: e.relation,
+    explanation: explainEntry(model, e, bottlenecks, unit),
+    waitDelta: e.stable ? byClass(model.ids, e.waitDelta) : null,
+    ...(e.certificate ? { certificate: certificateRecord(e.certificate) } : {}),
+    ...(e.skipped ? { skipped: e.skipped } : {}),
+  });
+  const additions = result.additions.map(toRecord);
+  const removals = result.removals.map(toRecord);
+  const ruleCosts: RuleCostRecord[] = [...additions, ...removals]
+    .filter((c) => !c.allowed && c.rule && c.delta !== null && c.delta < 0)
+    .map((c) => ({ pair: c.pair, change: c.change, rule: c.rule!, ...(c.ruleReason ? { ruleReason: c.ruleReason } : {}), backlogSaved: -c.delta! }))
+    .sort((x, y) => y.backlogSaved - x.backlogSaved);
+  const b = bottlenecks[0];
+  return {
+    ...base,
+    precision: supportedDigits(b ? b.slack / b.capacity : null),
+    reference: ctx.reference,
+    base: {
+      stable: true,
+      backlog: result.base.backlog,
+      wait: byClass(model.ids, result.base.wait),
+      independentSets: result.base.independentSets,
+      bottlenecks: bottlenecks.map((x) => ({ set: idsOf(model, x.set), neighbours: idsOf(model, x.neighbours), demand: x.demand, capacity: x.capacity, spareCapacity: x.slack })),
+    },
+    additions,
+    removals,
+    ruleCosts,
+    instability: null,
+  };
+}
+
+/**
+ * An unstable reference design: every addition is checked (does it make the design stable, and
+ * with what backlog?), every removal keeps it unstable; and the ways out are listed.
+ */
+async function unstableRecord(ctx: ScenarioContext, base: ReturnType<typeof recordBase<'sensitivity'>>, specs: readonly ChangeSpec[], cert: InstabilityCertificate): Promise<SensitivityRecord> {
+  const model = ctx.model;
+  const unit = ctx.scenario.timeUnit;
+  const pairs = edgePairs(model);
+  const record = (s: ChangeSpec): ChangeRecord => {
+    const common = { pair: pairIds(model, s.a, s.b), change: s.kind, allowed: s.allowed, ...ruleFields(s), listed: s.listed, price: s.price ?? null, delta: null, deltaPerPrice: null, predicted: false, relation: null, waitDelta: null };
+    if (s.kind === 'remove') return { ...common, stable: false, backlog: null, verdict: 'still unstable', explanation: 'the design is unstable with it, and removing a compatibility never helps stability' };
+    const changed = compileGraph(model.ids, model.rates, [...pairs, [s.a, s.b]]);
+    let st;
+    try {
+      st = checkStability(changed);
+    } catch (e) {
+      if (e instanceof EdgewiseError) return { ...common, stable: null, backlog: null, verdict: 'not evaluated', explanation: e.message, skipped: e.message };
+      throw e;
+    }
+    if (!st.stable) {
+      const c = certificateWithIds(changed, st.certificate!);
+      return { ...common, stable: false, backlog: null, verdict: 'still unstable', explanation: describeCertificate(c, unit), certificate: certificateRecord(c) };
+    }
+    try {
+      const r = evaluateExact(changed, { timeUnit: unit });
+      return { ...common, stable: true, backlog: r.backlogTotal, verdict: 'makes it stable', explanation: 'on its own, this addition makes the design stable' };
+    } catch (e) {
+      if (e instanceof EdgewiseError) return { ...common, stable: true, backlog: null, verdict: 'makes it stable', explanation: `makes the design stable; its backlog was not evaluated: ${e.message}`, skipped: e.message };
+      throw e;
+    }
+  };
+  const order = (x: ChangeRecord, y: ChangeRecord): number =>
+    (x.allowed === y.allowed ? 0 : x.allowed ? -1 : 1) || (x.stable === y.stable ? 0 : x.stable ? -1 : 1) || (x.price ?? Infinity) - (y.price ?? Infinity);
+  return {
+    ...base,
+    reference: ctx.reference,
+    base: { stable: false, backlog: null, wait: null, independentSets: null, bottlenecks: [] },
+    additions: specs.filter((s) => s.kind === 'add').map(record).sort(order),
+    removals: specs.filter((s) => s.kind === 'remove').map(record).sort(order),
+    ruleCosts: [],
+    instability: await instabilityOf(ctx, cert),
+  };
+}

@@ -1,0 +1,182 @@
+/**
+ * `simulate`: replications of the matching system under a policy, with 95 % intervals, wait
+ * percentiles and abandonment, and the exact FCFM value beside each estimate when the exact
+ * evaluator can handle the design (patient items, FCFM, stable, not too large).
+ */
+import { describeCertificate, EdgewiseError } from '../errors.js';
+import { evaluateExact } from '../exact/evaluate.js';
+import type { ExactResult } from '../exact/result.js';
+import type { PolicyName } from '../sim/policy.js';
+import { simulate, type SimulationOptions } from '../sim/simulate.js';
+import type { Estimate, WaitEstimate } from '../sim/summary.js';
+import { checkStability } from '../stability/check.js';
+import { certificateWithIds } from '../stability/certificate.js';
+import { recordBase, type ScenarioContext } from './context.js';
+import { certificateRecord, finite, pairIds, type CertificateRecord, type PairIds, type RecordBase, type Reference } from './records.js';
+import { demandNote } from './warnings.js';
+
+/** A simulated mean with its 95 % interval across replications (null with one replication), and the exact value when known. */
+export interface EstimateRecord {
+  /** null when nothing was observed (e.g. no item of the class was matched). */
+  readonly mean: number | null;
+  readonly ci95: [number, number] | null;
+  readonly exact?: number;
+}
+
+export interface WaitRecord extends EstimateRecord {
+  /** Percentiles of the pooled waits (matched items; those matched at once wait 0). */
+  readonly p50: number | null;
+  readonly p90: number | null;
+  readonly p99: number | null;
+  readonly p50Ci95: [number, number] | null;
+  readonly p90Ci95: [number, number] | null;
+  readonly p99Ci95: [number, number] | null;
+}
+
+export interface SimulateRecord extends RecordBase {
+  readonly command: 'simulate';
+  readonly reference: Reference;
+  readonly method: 'simulation';
+  readonly policy: PolicyName;
+  readonly ranking: string[] | null;
+  /** Replications finished (fewer than planned when the run was interrupted). */
+  readonly replications: number;
+  readonly plannedReplications: number;
+  /** True when the run was interrupted: the figures come from the replications finished. */
+  readonly partial: boolean;
+  readonly arrivals: number;
+  readonly warmup: number;
+  readonly seed: number;
+  readonly maxWaiting: number;
+  readonly engine: 'arrival-chain' | 'timed';
+  readonly stability: { readonly stable: boolean | null; readonly certificate: CertificateRecord | null; readonly note: string | null };
+  readonly exact: { readonly available: boolean; readonly reason: string | null; readonly independentSets: number | null };
+  readonly backlog: { readonly total: EstimateRecord; readonly byClass: Record<string, EstimateRecord> };
+  readonly wait: { readonly total: WaitRecord; readonly byClass: Record<string, WaitRecord> };
+  readonly matchedAtOnce: { readonly total: EstimateRecord; readonly byClass: Record<string, EstimateRecord> };
+  readonly matchRates: Array<{ readonly pair: PairIds; readonly rate: EstimateRecord }>;
+  readonly abandonment: {
+    readonly total: { readonly rate: EstimateRecord; readonly share: EstimateRecord };
+    readonly byClass: Record<string, { readonly patience: number | null; readonly rate: EstimateRecord; readonly share: EstimateRecord }>;
+  };
+  readonly notes: string[];
+}
+
+export interface SimulateInput {
+  readonly policy: PolicyName;
+  readonly ranking?: readonly string[];
+  readonly arrivals?: number;
+  readonly replications?: number;
+  readonly warmup?: number;
+  readonly seed?: number;
+  readonly maxWaiting?: number;
+  readonly jobs: number;
+  readonly timed?: boolean;
+  /** Memory guard of the exact column. */
+  readonly exactMaxSets: number;
+  readonly onProgress?: (done: number, total: number) => void;
+  readonly signal?: AbortSignal;
+}
+
+function stabilityOf(ctx: ScenarioContext, impatient: boolean): SimulateRecord['stability'] {
+  try {
+    const report = checkStability(ctx.model);
+    if (report.stable) return { stable: true, certificate: null, note: null };
+    const c = certificateWithIds(ctx.model, report.certificate!);
+    const tail = impatient
+      ? '; abandonment may still keep the queues bounded'
+      : '; the queues grow without bound, so the figures describe a transient and grow with --arrivals';
+    return { stable: false, certificate: certificateRecord(c), note: describeCertificate(c, ctx.scenario.timeUnit) + tail };
+  } catch (e) {
+    if (e instanceof EdgewiseError) return { stable: null, certificate: null, note: `stability could not be decided: ${e.message}` };
+    throw e;
+  }
+}
+
+function exactOf(ctx: ScenarioContext, input: SimulateInput, impatient: boolean, stable: boolean | null): { exact?: ExactResult; reason: string | null } {
+  if (input.policy !== 'fcfm') return { reason: 'exact values exist for FCFM only' };
+  if (impatient) return { reason: 'exact values assume patient items' };
+  if (stable === false) return { reason: 'the design is unstable' };
+  try {
+    return { exact: evaluateExact(ctx.model, { maxSets: input.exactMaxSets, timeUnit: ctx.scenario.timeUnit }), reason: null };
+  } catch (e) {
+    if (e instanceof EdgewiseError) return { reason: e.message };
+    throw e;
+  }
+}
+
+const interval = (c: readonly [number, number] | null | undefined): [number, number] | null =>
+  c && Number.isFinite(c[0]) && Number.isFinite(c[1]) ? [c[0], c[1]] : null;
+
+const est = (e: Estimate, exact?: number): EstimateRecord => ({
+  mean: finite(e.mean),
+  ci95: Number.isFinite(e.mean) ? interval(e.ci95) : null,
+  ...(exact === undefined || !Number.isFinite(exact) ? {} : { exact }),
+});
+
+function waitRec(w: WaitEstimate, exact?: number): WaitRecord {
+  const q = w.quantileCi95.map(interval);
+  return { ...est(w, exact), p50: finite(w.p50), p90: finite(w.p90), p99: finite(w.p99), p50Ci95: q[0] ?? null, p90Ci95: q[1] ?? null, p99Ci95: q[2] ?? null };
+}
+
+export async function simulateUseCase(ctx: ScenarioContext, input: SimulateInput): Promise<SimulateRecord> {
+  const model = ctx.model;
+  const patience = ctx.scenario.classes.map((c) => c.patience ?? Infinity);
+  const impatient = patience.some((p) => Number.isFinite(p));
+  const stability = stabilityOf(ctx, impatient);
+  const exact = exactOf(ctx, input, impatient, stability.stable);
+  const options: SimulationOptions = {
+    policy: input.policy,
+    ...(input.ranking ? { priority: input.ranking } : {}),
+    patience,
+    ...(input.arrivals === undefined ? {} : { arrivals: input.arrivals }),
+    ...(input.replications === undefined ? {} : { replications: input.replications }),
+    ...(input.warmup === undefined ? {} : { warmup: input.warmup }),
+    ...(input.seed === undefined ? {} : { seed: input.seed }),
+    ...(input.maxWaiting === undefined ? {} : { maxWaiting: input.maxWaiting }),
+    jobs: input.jobs,
+    timed: input.timed === true,
+    ...(input.onProgress ? { onProgress: input.onProgress } : {}),
+    ...(input.signal ? { signal: input.signal } : {}),
+  };
+  const r = await simulate(model, options);
+  const x = exact.exact;
+  const ids = model.ids;
+  const by = <T>(f: (k: number) => T): Record<string, T> => Object.fromEntries(ids.map((id, k) => [id, f(k)]));
+  let immediateExact: number | undefined;
+  if (x) {
+    let s = 0;
+    for (let k = 0; k < model.n; k++) s += model.rates[k]! * x.immediateMatch[k]!;
+    immediateExact = s / model.totalRate;
+  }
+  const warnings = [demandNote(ctx), stability.note, r.partial ? `interrupted: ${r.replications} of ${r.planned} replications finished; the figures come from those` : null];
+  return {
+    ...recordBase(ctx, 'simulate', warnings),
+    reference: ctx.reference,
+    method: 'simulation',
+    policy: r.policy,
+    ranking: input.ranking ? [...input.ranking] : null,
+    replications: r.replications,
+    plannedReplications: r.planned,
+    partial: r.partial,
+    arrivals: r.arrivals,
+    warmup: r.warmup,
+    seed: r.seed,
+    maxWaiting: r.maxWaiting,
+    engine: r.engine,
+    stability,
+    exact: { available: x !== undefined, reason: exact.reason, independentSets: x ? x.independentSets : null },
+    backlog: { total: est(r.backlog.total, x?.backlogTotal), byClass: by((k) => est(r.backlog.byClass[k]!, x?.backlog[k])) },
+    wait: { total: waitRec(r.wait.total, x ? x.backlogTotal / model.totalRate : undefined), byClass: by((k) => waitRec(r.wait.byClass[k]!, x?.wait[k])) },
+    matchedAtOnce: { total: est(r.immediateMatch.total, immediateExact), byClass: by((k) => est(r.immediateMatch.byClass[k]!, x?.immediateMatch[k])) },
+    matchRates: r.matchRates.map((e, i) => ({ pair: pairIds(model, model.edgeA[i]!, model.edgeB[i]!), rate: est(e, x?.matchRates[i]) })),
+    abandonment: {
+      total: { rate: est(r.abandonRate.total), share: est(r.abandonShare.total) },
+      byClass: by((k) => ({ patience: Number.isFinite(r.patience[k]!) ? r.patience[k]! : null, rate: est(r.abandonRate.byClass[k]!), share: est(r.abandonShare.byClass[k]!) })),
+    },
+    notes: [
+      'ci95: 95 % Student t interval of the mean across replications',
+      'wait percentiles pool the matched items of all replications (items matched at once count as 0, abandoned items are excluded); pXXCi95 are intervals of the per-replication percentiles',
+    ],
+  };
+}

@@ -1,0 +1,24 @@
+/**
+ * The standard cautions a record carries where its figures do not account for something the
+ * scenario says. Each is one sentence; records put them in `warnings`, the CLI prints them on
+ * standard error, JSON keeps the array.
+ */
+import type { ScenarioContext } from './context.js';
+
+/** Exact FCFM figures assume patient items: said whenever the file gives a class a patience. */
+export function patienceWarning(ctx: ScenarioContext, what = 'These exact figures'): string | null {
+  const impatient = ctx.scenario.classes.filter((c) => c.patience !== undefined).map((c) => c.id);
+  if (impatient.length === 0) return null;
+  const which = impatient.length <= 4 ? impatient.join(', ') : `${impatient.slice(0, 3).join(', ')} and ${impatient.length - 3} more`;
+  return `${what} ignore patience: ${impatient.length === 1 ? 'class' : 'classes'} ${which} ${impatient.length === 1 ? 'has' : 'have'} a patience in the file, so in reality some items give up and fewer wait; \`edgewise simulate\` gives figures with abandonment.`;
+}
+
+/** Figures under a demand variant say so. */
+export function demandNote(ctx: ScenarioContext): string | null {
+  return ctx.reference.demand === 'today' ? null : `Rates are those of the demand variant "${ctx.reference.demand}", not the classes' own.`;
+}
+
+/** Every standard warning that applies to exact figures of the context. */
+export function exactWarnings(ctx: ScenarioContext, what?: string): string[] {
+  return [patienceWarning(ctx, what), demandNote(ctx)].filter((w): w is string => w !== null);
+}
