@@ -5,6 +5,8 @@
  * λ(T) ≥ λ(S)). Every repair must relieve each of them, so the MILP need not find that out one
  * unstable answer at a time.
  */
+import { SolverError } from '../../errors.js';
+import type { StabilityReport } from '../../stability/report.js';
 import type { DesignProblem } from '../problem.js';
 import { relievingCut, type ToggleCut } from '../milp.js';
 import { stabilityWith } from './stable.js';
@@ -19,7 +21,14 @@ export function seedCuts(sub: DesignProblem): ToggleCut[] {
     const cut = relievingCut(sub, today, { set, neighbours });
     if (cut) out.push(cut);
   };
-  for (const c of stabilityWith(sub, []).components) {
+  let report: StabilityReport;
+  try {
+    report = stabilityWith(sub, []);
+  } catch (e) {
+    if (e instanceof SolverError) return out; // today's design on the boundary: no certificate to seed with
+    throw e;
+  }
+  for (const c of report.components) {
     const cert = c.certificate;
     if (!cert) continue;
     push(cert.set, cert.neighbours);
