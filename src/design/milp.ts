@@ -179,7 +179,7 @@ function stabilityCut(problem: DesignProblem, design: Uint8Array): { cut?: Toggl
  * The cut of an overloaded set I of `design` (see the top of this file): some toggle off in the
  * design that joins a class of I to a class outside N(I) must be on. Undefined when there is none.
  */
-export function relievingCut(problem: DesignProblem, design: ArrayLike<number>, overloaded: { readonly set: ArrayLike<number>; readonly neighbours: ArrayLike<number> }): ToggleCut | undefined {
+function relievingCut(problem: DesignProblem, design: ArrayLike<number>, overloaded: { readonly set: ArrayLike<number>; readonly neighbours: ArrayLike<number> }): ToggleCut | undefined {
   const inI = new Uint8Array(problem.n);
   const inN = new Uint8Array(problem.n);
   for (let i = 0; i < overloaded.set.length; i++) inI[overloaded.set[i]!] = 1;

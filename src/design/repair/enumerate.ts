@@ -4,8 +4,8 @@
  *
  * 1. Solve min Σ (p_j + ε_j) x_j over the allowed candidates with a strictly positive flow on every
  *    present edge (t ≥ the recommender's floor) and the degree rows, at a relative MIP gap of 0. The
- *    small ε_j (tie-weights.ts) order equal costs by fewer pairs, then earlier pairs. The stability
- *    cuts start from today's overloaded sets (seed-cuts.ts) and every solve's cuts are kept.
+ *    small ε_j (tie-weights.ts) order equal costs by fewer pairs, then earlier pairs. The cuts start
+ *    from today's overloaded sets (seed-cuts.ts) and every solve's stability cuts are kept.
  * 2. Check the answer minimal (minimal.ts drops each member once; with positive weights an optimum is
  *    minimal, so this only guards against solver tolerance) and cut it off with the no-good cut
  *    Σ_{j∈S} x_j ≤ |S| − 1, which also excludes every superset of S (none of them is minimal).
@@ -59,7 +59,9 @@ export async function cheapestSets(sub: DesignProblem, count: number): Promise<F
   const weights = tieWeights(sub.toggles.map((t) => t.price));
   const weighted: DesignProblem = { ...sub, toggles: sub.toggles.map((t, j) => ({ ...t, price: weights[j]! })) };
   const minFlow = stableFlowFloor(sub);
-  const cuts: ToggleCut[] = seedCuts(sub);
+  const seeds = seedCuts(sub);
+  if (seeds.hopeless) return out;
+  const cuts: ToggleCut[] = [...seeds.cuts];
   while (out.length < count) {
     const got = await solveFlowMilp(weighted, { goal: 'min-cost', minFlow, cuts }, { maxCuts: MAX_STABILITY_CUTS, mipRelativeGap: 0 });
     if (!got) break;

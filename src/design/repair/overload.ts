@@ -1,16 +1,15 @@
 /**
  * Why no allowed set restores stability, when even the all-allowed design (today's design plus every
  * allowed candidate, the limits taken one candidate at a time) is unstable. Its stability certificate
- * is an independent set I without self-match with λ(I) ≥ λ(N(I)). Only two kinds of pair change that
- * inequality for I: one inside I (a self-match, or two classes of I: I is then no longer independent)
- * and one between a class of I and a class outside I ∪ N(I) (N(I) grows by that class). A pair
- * touching N(I), or away from I, leaves both sides as they are. Every allowed candidate is already in
- * the design, so every relieving pair is either unlisted or kept out by a rule: those are named.
+ * is an independent set I without self-pair with λ(I) ≥ λ(N(I)); relief.ts says which pairs relieve
+ * it. Every allowed candidate is already in the design, so every relieving pair is either unlisted or
+ * kept out by a rule: those are named.
  */
 import type { DesignProblem } from '../problem.js';
 import type { RepairSpace } from './space.js';
 import { stabilityWith } from './stable.js';
-import type { BlockedPair, ForbiddenCandidate, Overload, Partner, ReliefKind } from './types.js';
+import { reliefOf, setMasks } from './relief.js';
+import type { BlockedPair, ForbiddenCandidate, Overload, Partner } from './types.js';
 
 /** The overload of the all-allowed design, or undefined when that design is stable. */
 export function overloadOf(problem: DesignProblem, space: RepairSpace, forbidden: readonly ForbiddenCandidate[]): Overload | undefined {
@@ -18,18 +17,10 @@ export function overloadOf(problem: DesignProblem, space: RepairSpace, forbidden
   const report = stabilityWith(space.sub, all);
   if (report.stable) return undefined;
   const cert = report.certificate!;
-  const inI = new Uint8Array(problem.n);
-  const inN = new Uint8Array(problem.n);
-  cert.set.forEach((k) => (inI[k] = 1));
-  cert.neighbours.forEach((k) => (inN[k] = 1));
-  const relief = (a: number, b: number): ReliefKind | undefined => {
-    if (inI[a] && inI[b]) return 'within';
-    if ((inI[a] && !inN[b]) || (inI[b] && !inN[a])) return 'outside';
-    return undefined;
-  };
+  const masks = setMasks(problem.n, cert.set, cert.neighbours);
   const blocked: BlockedPair[] = [];
   const block = (a: number, b: number, rule: BlockedPair['rule'], origin: BlockedPair['origin'], source: number, full: readonly number[]): void => {
-    const kind = relief(a, b);
+    const kind = reliefOf(masks, a, b);
     if (kind) blocked.push({ a, b, rule, origin, source, full, relief: kind });
   };
   const candidates: Array<{ source: number; add: () => void }> = [];
@@ -41,7 +32,7 @@ export function overloadOf(problem: DesignProblem, space: RepairSpace, forbidden
   candidates.sort((x, y) => x.source - y.source).forEach((c) => c.add());
   for (const r of problem.forcedOut) block(r.a, r.b, 'forbidden', 'compatibility', r.source, []);
   const partners: Partner[] = [];
-  for (let k = 0; k < problem.n; k++) if (!inI[k] && !inN[k]) partners.push({ class: k, rate: problem.rates[k]! });
+  for (let k = 0; k < problem.n; k++) if (!masks.inI[k] && !masks.inN[k]) partners.push({ class: k, rate: problem.rates[k]! });
   partners.sort((x, y) => y.rate - x.rate || x.class - y.class);
   return {
     set: Int32Array.from(cert.set),
