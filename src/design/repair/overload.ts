@@ -18,19 +18,20 @@ export function overloadOf(problem: DesignProblem, space: RepairSpace, forbidden
   if (report.stable) return undefined;
   const cert = report.certificate!;
   const masks = setMasks(problem.n, cert.set, cert.neighbours);
+  type Listed = Omit<BlockedPair, 'relief'>;
+  const listed: Listed[] = [
+    ...forbidden.map((f): Listed => ({ a: f.a, b: f.b, rule: 'forbidden', origin: 'candidate', source: f.source, full: [] })),
+    ...space.limitBlocked.map(({ toggle, full }): Listed => {
+      const t = problem.toggles[toggle]!;
+      return { a: t.a, b: t.b, rule: 'limit', origin: 'candidate', source: t.source, full };
+    }),
+  ].sort((x, y) => x.source - y.source);
+  for (const r of problem.forcedOut) listed.push({ a: r.a, b: r.b, rule: 'forbidden', origin: 'compatibility', source: r.source, full: [] });
   const blocked: BlockedPair[] = [];
-  const block = (a: number, b: number, rule: BlockedPair['rule'], origin: BlockedPair['origin'], source: number, full: readonly number[]): void => {
-    const kind = reliefOf(masks, a, b);
-    if (kind) blocked.push({ a, b, rule, origin, source, full, relief: kind });
-  };
-  const candidates: Array<{ source: number; add: () => void }> = [];
-  for (const f of forbidden) candidates.push({ source: f.source, add: () => block(f.a, f.b, 'forbidden', 'candidate', f.source, []) });
-  for (const l of space.limitBlocked) {
-    const t = problem.toggles[l.toggle]!;
-    candidates.push({ source: t.source, add: () => block(t.a, t.b, 'limit', 'candidate', t.source, l.full) });
+  for (const b of listed) {
+    const relief = reliefOf(masks, b.a, b.b);
+    if (relief) blocked.push({ ...b, relief });
   }
-  candidates.sort((x, y) => x.source - y.source).forEach((c) => c.add());
-  for (const r of problem.forcedOut) block(r.a, r.b, 'forbidden', 'compatibility', r.source, []);
   const partners: Partner[] = [];
   for (let k = 0; k < problem.n; k++) if (!masks.inI[k] && !masks.inN[k]) partners.push({ class: k, rate: problem.rates[k]! });
   partners.sort((x, y) => y.rate - x.rate || x.class - y.class);

@@ -17,15 +17,14 @@ export interface LimitBlock {
 
 export interface RepairSpace {
   /**
-   * A design problem whose fixed pairs are today's design and whose toggles are the allowed
-   * candidates (in problem order); cost offset 0 and no budget, so a design's cost is the repair's.
+   * A design problem whose fixed pairs are today's design (so its fixedDegree is today's degree) and
+   * whose toggles are the allowed candidates (in problem order); cost offset 0 and no budget, so a
+   * design's cost is the repair's.
    */
   readonly sub: DesignProblem;
   /** Original toggle index of each toggle of `sub` (ascending). */
   readonly toggleOf: Int32Array;
   readonly limitBlocked: readonly LimitBlock[];
-  /** Compatibilities per class in today's design (a self-match counts once). */
-  readonly todayDegree: Int32Array;
 }
 
 /** Today's pairs: the fixed pairs, then the removable compatibilities (on today). */
@@ -74,7 +73,7 @@ export function repairSpace(problem: DesignProblem): RepairSpace {
     else allowed.push(j);
   });
   const maxDegree = Float64Array.from(problem.maxDegree, (m, k) => Math.max(m, todayDegree[k]!));
-  return { sub: subProblem(problem, fixed, allowed, maxDegree), toggleOf: Int32Array.from(allowed), limitBlocked, todayDegree };
+  return { sub: subProblem(problem, fixed, allowed, maxDegree), toggleOf: Int32Array.from(allowed), limitBlocked };
 }
 
 /** The same space with every candidate allowed and no limits (to show what the limits cost). */
@@ -85,5 +84,5 @@ export function unlimitedSpace(problem: DesignProblem): RepairSpace {
     if (t.kind === 'candidate') all.push(j);
   });
   const maxDegree = new Float64Array(problem.n).fill(Infinity);
-  return { sub: subProblem(problem, fixed, all, maxDegree), toggleOf: Int32Array.from(all), limitBlocked: [], todayDegree: degreeOf(problem.n, fixed) };
+  return { sub: subProblem(problem, fixed, all, maxDegree), toggleOf: Int32Array.from(all), limitBlocked: [] };
 }

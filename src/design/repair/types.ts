@@ -13,12 +13,12 @@ export interface Repair {
   readonly withinBudget: boolean;
 }
 
-/** How a pair would relieve an overloaded set I: inside I (a self-match or two classes of I), or from I to a class outside I ∪ N(I). */
+/** How a pair would relieve an overloaded set I: inside I (a self-pair or two classes of I), or from I to a class outside I ∪ N(I). */
 export type ReliefKind = 'within' | 'outside';
 
 /** A pair that would relieve the overloaded set but the scenario's rules keep out. */
 export interface BlockedPair {
-  /** Class indices, a ≤ b (equal for a self-match). */
+  /** Class indices, a ≤ b (equal for a self-pair). */
   readonly a: number;
   readonly b: number;
   /** `forbidden`: listed in the scenario's forbidden pairs; `limit`: an endpoint is at its maxCompatibilities today. */
@@ -39,7 +39,7 @@ export interface Partner {
 
 /** The set that stays overloaded with every allowed candidate added, and what would relieve it. */
 export interface Overload {
-  /** I, ascending: independent, no self-match, λ(I) ≥ λ(N(I)) in the all-allowed design. */
+  /** I, ascending: independent, no self-pair, λ(I) ≥ λ(N(I)) in the all-allowed design. */
   readonly set: Int32Array;
   /** N(I) in the all-allowed design, ascending. */
   readonly neighbours: Int32Array;
