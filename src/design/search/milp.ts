@@ -23,8 +23,10 @@
  * two sides have exactly equal rates also admits such a flow and is not stable. So every answer is
  * re-checked with the exact stability verdict (checkStability); an unstable answer yields a cut and
  * the MILP is solved again. The cut comes from the verdict's certificate I (λ(I) ≥ λ(N(I))): dropping
- * compatibilities never helps I, so every stable design must switch on some toggle touching I that is
- * off now: Σ_{j off, j touches I} x_j ≥ 1. (If there is none, no design is stable.)
+ * compatibilities never helps I, nor does adding one that touches N(I) or misses I, so every stable
+ * design must switch on some toggle that is off now and joins a class of I to a class outside N(I)
+ * (I itself included: a pair within I, or a self-loop): Σ_{j off, j relieves I} x_j ≥ 1. (If there is
+ * none, no design is stable.)
  */
 import { SolverError } from '../../errors.js';
 import { compileGraph } from '../../model/compile.js';
@@ -148,12 +150,16 @@ export interface MilpDesign {
   readonly proven: boolean;
   /** MILP solves it took (1 + number of stability cuts). */
   readonly solves: number;
+  /** The stability cuts this solve added (valid for every design of the problem, so reusable). */
+  readonly stabilityCuts?: readonly ToggleCut[];
 }
 
 export interface MilpSolveOptions {
   readonly timeLimitSeconds?: number;
   /** Stop adding stability cuts after this many (default 50). */
   readonly maxCuts?: number;
+  /** HiGHS's relative MIP gap (its default, 1e-4, when absent). */
+  readonly mipRelativeGap?: number;
 }
 
 /** The cut a non-stable design yields (see the top of this file), or undefined when nothing can fix it. */
@@ -165,15 +171,24 @@ function stabilityCut(problem: DesignProblem, design: Uint8Array): { cut?: Toggl
     for (const c of report.components) minFlow = Math.min(minFlow, c.minEdgeFlow ?? Infinity);
     return { stable: true, minFlow };
   }
-  const cert = report.certificate!;
+  const cut = relievingCut(problem, design, report.certificate!);
+  return cut ? { stable: false, minFlow: NaN, cut } : { stable: false, minFlow: NaN };
+}
+
+/**
+ * The cut of an overloaded set I of `design` (see the top of this file): some toggle off in the
+ * design that joins a class of I to a class outside N(I) must be on. Undefined when there is none.
+ */
+function relievingCut(problem: DesignProblem, design: ArrayLike<number>, overloaded: { readonly set: ArrayLike<number>; readonly neighbours: ArrayLike<number> }): ToggleCut | undefined {
   const inI = new Uint8Array(problem.n);
-  for (const k of cert.set) inI[k] = 1;
+  const inN = new Uint8Array(problem.n);
+  for (let i = 0; i < overloaded.set.length; i++) inI[overloaded.set[i]!] = 1;
+  for (let i = 0; i < overloaded.neighbours.length; i++) inN[overloaded.neighbours[i]!] = 1;
   const off: number[] = [];
   problem.toggles.forEach((t, j) => {
-    if (!design[j] && (inI[t.a] || inI[t.b])) off.push(j);
+    if (!design[j] && ((inI[t.a] && !inN[t.b]) || (inI[t.b] && !inN[t.a]))) off.push(j);
   });
-  if (off.length === 0) return { stable: false, minFlow: NaN };
-  return { stable: false, minFlow: NaN, cut: { toggles: off, coefficients: off.map(() => 1), rhs: 1 } };
+  return off.length === 0 ? undefined : { toggles: off, coefficients: off.map(() => 1), rhs: 1 };
 }
 
 /**
@@ -205,6 +220,7 @@ export async function solveFlowMilp(problem: DesignProblem, options: FlowMilpOpt
     const sol = await solveWithHighs(milp.lp, {
       checkTolerance: MILP_CHECK_TOLERANCE,
       ...(solve.timeLimitSeconds === undefined ? {} : { timeLimitSeconds: solve.timeLimitSeconds }),
+      ...(solve.mipRelativeGap === undefined ? {} : { mipRelativeGap: solve.mipRelativeGap }),
     });
     if (sol.status === 'infeasible') return undefined;
     if (!(sol.status === 'optimal' || (sol.status === 'limit' && sol.values.every(Number.isFinite)))) {
@@ -223,6 +239,7 @@ export async function solveFlowMilp(problem: DesignProblem, options: FlowMilpOpt
         verifiedMinFlow: verdict.minFlow,
         proven: sol.status === 'optimal',
         solves: round + 1,
+        stabilityCuts: cuts.slice(options.cuts?.length ?? 0),
       };
     }
     if (!verdict.cut) return undefined;
@@ -240,11 +257,16 @@ export const CHEAPEST_FLOW_FLOOR = 1e-6;
  * stable only with a smaller margin than that floor are not considered.
  */
 export async function cheapestStableDesign(problem: DesignProblem, solve: MilpSolveOptions = {}): Promise<MilpDesign | undefined> {
+  return solveFlowMilp(problem, { goal: 'min-cost', minFlow: stableFlowFloor(problem) }, solve);
+}
+
+/** The floor on t that counts as stable in the min-cost MILPs, in scaled rate units: FLOOR · M. */
+export function stableFlowFloor(problem: DesignProblem): number {
   let total = 0;
   for (let i = 0; i < problem.n; i++) total += problem.rates[i]!;
   let m = Infinity;
   for (let i = 0; i < problem.n; i++) m = Math.min(m, problem.rates[i]! / (total / problem.n));
-  return solveFlowMilp(problem, { goal: 'min-cost', minFlow: CHEAPEST_FLOW_FLOOR * m }, solve);
+  return CHEAPEST_FLOW_FLOOR * m;
 }
 
 /**
