@@ -8,7 +8,7 @@
  * of 4 on every class; every candidate at the same cost (many ties); a tree whose repair needs a
  * dozen pairs (the hardest MILPs here).
  */
-import type { DesignProblem, Toggle } from '../src/design/problem.js';
+import type { DesignProblem, Toggle } from '../src/design/space/problem.js';
 import { repairs, type RepairResult } from '../src/design/repair/index.js';
 import { seededRandom } from '../src/random.js';
 import { loadHighs } from '../src/solvers/highs.js';

@@ -1,5 +1,5 @@
 import { compileGraph, type CompiledModel } from '../../src/model/compile.js';
-import type { DesignProblem } from '../../src/design/problem.js';
+import type { DesignProblem } from '../../src/design/space/problem.js';
 import { bruteStability } from './brute-stability.js';
 
 /**

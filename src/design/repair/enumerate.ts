@@ -15,8 +15,8 @@
  * them, being minimal), and every feasible point contains such a T that weighs no more; so the
  * solves go through the minimal sets in order of weight, i.e. by cost, then size, then Σ positions.
  */
-import { roundCost, type DesignProblem } from '../problem.js';
-import { solveFlowMilp, stableFlowFloor, type ToggleCut } from '../milp.js';
+import { roundCost, type DesignProblem } from '../space/problem.js';
+import { solveFlowMilp, stableFlowFloor, type ToggleCut } from '../search/milp.js';
 import { minimise } from './minimal.js';
 import { seedCuts } from './seed-cuts.js';
 import { tieWeights } from './tie-weights.js';

@@ -2,7 +2,7 @@
  * When every allowed candidate together restores stability but no set within the maxCompatibilities
  * of every class does: the cheapest repair with the limits lifted, and the classes it takes over.
  */
-import { degrees, type DesignProblem } from '../problem.js';
+import { degrees, type DesignProblem } from '../space/problem.js';
 import { cheapestSets } from './enumerate.js';
 import { repairOf } from './repair-of.js';
 import type { RepairSpace } from './space.js';

@@ -5,7 +5,7 @@
  * not be dropped from a larger set cannot be dropped from a smaller one either, and every member of
  * the result has been dropped once and found needed.
  */
-import type { DesignProblem } from '../problem.js';
+import type { DesignProblem } from '../space/problem.js';
 import { isStableWith } from './stable.js';
 
 /**

@@ -5,7 +5,7 @@
  * it. Every allowed candidate is already in the design, so every relieving pair is either unlisted or
  * kept out by a rule: those are named.
  */
-import type { DesignProblem } from '../problem.js';
+import type { DesignProblem } from '../space/problem.js';
 import type { RepairSpace } from './space.js';
 import { stabilityWith } from './stable.js';
 import { reliefOf, setMasks } from './relief.js';

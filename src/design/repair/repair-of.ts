@@ -1,5 +1,5 @@
 /** A set found in a repair space, as a Repair of the original problem. */
-import { roundCost, type DesignProblem } from '../problem.js';
+import { roundCost, type DesignProblem } from '../space/problem.js';
 import type { FoundSet } from './enumerate.js';
 import type { RepairSpace } from './space.js';
 import type { Repair } from './types.js';

@@ -3,7 +3,7 @@
  * candidates whose addition makes it stable (docs/repairs.md). Today's design is the problem's:
  * fixed pairs and every removable compatibility (a repair only adds; forced removals stay out).
  */
-import { degreesAllowed, type DesignProblem } from '../problem.js';
+import { degreesAllowed, type DesignProblem } from '../space/problem.js';
 import { cheapestSets, foundSet } from './enumerate.js';
 import { limitBound } from './limits.js';
 import { minimise } from './minimal.js';

@@ -17,8 +17,8 @@ import { compileGraph } from '../../model/compile.js';
 import { components } from '../../model/components.js';
 import { tightestPerClass } from '../../stability/certificate.js';
 import { checkStability } from '../../stability/check.js';
-import type { ToggleCut } from '../milp.js';
-import type { DesignProblem } from '../problem.js';
+import type { ToggleCut } from '../search/milp.js';
+import type { DesignProblem } from '../space/problem.js';
 import { reliefOf, setMasks } from './relief.js';
 
 /** Relative tie below which two rates count as equal (bipartite sides, deficits). */

@@ -5,7 +5,7 @@
  * endpoint is at its maxCompatibilities today; together the added candidates must keep every class
  * within its limit (the MILP's degree rows). A class already over its limit today takes no addition.
  */
-import type { DesignProblem, Toggle } from '../problem.js';
+import type { DesignProblem, Toggle } from '../space/problem.js';
 
 /** A candidate kept out because an endpoint is at its maxCompatibilities today. */
 export interface LimitBlock {

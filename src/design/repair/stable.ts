@@ -3,7 +3,7 @@ import { SolverError } from '../../errors.js';
 import { compileGraph } from '../../model/compile.js';
 import { checkStability } from '../../stability/check.js';
 import type { StabilityReport } from '../../stability/report.js';
-import type { DesignProblem } from '../problem.js';
+import type { DesignProblem } from '../space/problem.js';
 
 /** The stability report of the sub-problem's fixed pairs plus the toggles `on` (toggle indices of `sub`). */
 export function stabilityWith(sub: DesignProblem, on: readonly number[]): StabilityReport {

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import type { DesignProblem } from '../../../src/design/problem.js';
+import type { DesignProblem } from '../../../src/design/space/problem.js';
 import { repairs, type ForbiddenCandidate, type RepairResult } from '../../../src/design/repair/index.js';
 import { maskOf, neighbourhood, toBitGraph } from '../../helpers/bitgraph.js';
 import { bruteStability, certificateProblem } from '../../helpers/brute-stability.js';

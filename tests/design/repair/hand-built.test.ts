@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { designProblem } from '../../../src/design/problem.js';
+import { designProblem } from '../../../src/design/space/problem.js';
 import { forbiddenCandidates, repairs, type RepairResult } from '../../../src/design/repair/index.js';
 import { readDesignFields } from '../../../src/model/design-fields.js';
 import { validateScenario } from '../../../src/model/validate.js';
