@@ -40,7 +40,7 @@ import {
   type TextLine,
 } from './label-placement.js';
 import { arrange, PAD, unitOr, type Arrangement } from './graph-positions.js';
-import { fitText, textWidth } from './text-metrics.js';
+import { fitMiddle, fitText, textWidth, wrapText } from './text-metrics.js';
 
 export interface LayoutNode extends GroupInput {
   readonly rate: number;
@@ -142,10 +142,25 @@ const f1 = (x: number): string => (Math.round(x * 10) / 10).toString();
 export function layoutGraphDrawing(input: GraphLayoutInput): GraphGeometry {
   const { nodes, edges, width: W } = input;
   const n = nodes.length;
+  if (n === 0) return { kind: 'ring', width: W, height: 2 * PAD, discs: [], hulls: [], captions: [], edges: [], labels: [], words: [], key: [] };
   const radii = discRadii(nodes.map((v) => v.rate));
   const reach = radii.map((r, i) => r + (nodes[i]!.ringed ? RING_GAP + 1 : 0));
   const grouping = groupClasses(nodes);
-  const shortNames = grouping.names.map((s) => fitText(s, NAME_WIDTH, NAME_SIZE, true));
+  // names to try, longest first: cut at the end, else in the middle (which keeps a distinguishing
+  // tail such as a number); a cut name that another class shares is not tried (it would mislead)
+  const variants = [
+    (s: string) => fitText(s, NAME_WIDTH, NAME_SIZE, true),
+    (s: string) => fitMiddle(s, NAME_WIDTH, NAME_SIZE, true),
+    (s: string) => fitText(s, SHORT_NAME_WIDTH, NAME_SIZE, true),
+    (s: string) => fitMiddle(s, SHORT_NAME_WIDTH, NAME_SIZE, true),
+  ].map((cut) => {
+    const names = grouping.names.map(cut);
+    const count = new Map<string, number>();
+    for (const s of names) count.set(s, (count.get(s) ?? 0) + 1);
+    return names.map((s, i) => (s === grouping.names[i] || count.get(s) === 1 ? s : null));
+  });
+  const tries = Array.from({ length: n }, (_, i) => [...new Set(variants.map((v) => v[i]).filter((s): s is string => s !== null))]);
+  const shortNames = tries.map((t, i) => t[0] ?? fitText(grouping.names[i]!, NAME_WIDTH, NAME_SIZE, true));
   const pairs = edges.filter((e) => e.a !== e.b).map((e) => [e.a, e.b] as const);
 
   // 1. positions
@@ -280,9 +295,8 @@ export function layoutGraphDrawing(input: GraphLayoutInput): GraphGeometry {
         labels[i] = got ? { node: i, text: got, number: null, inside: false } : null;
         continue;
       }
-      const tries = [shortNames[i]!, fitText(grouping.names[i]!, SHORT_NAME_WIDTH, NAME_SIZE, true)];
       let got: PlacedText | null = null;
-      for (const name of tries[0] === tries[1] ? [tries[0]!] : tries) {
+      for (const name of tries[i]!) {
         got = choose(candidates(i, labelLines(name, rate), 3), obstacles);
         if (got) break;
       }
@@ -389,17 +403,20 @@ export function layoutGraphDrawing(input: GraphLayoutInput): GraphGeometry {
   if (numbered.length > 0) {
     const head = placeText([{ text: 'Numbered classes', size: KEY_SIZE, bold: true }], PAD + 4, bottom + 6, 0, 0);
     key.push(head);
-    const entries = numbered.map((l) => `${l.number}  ${nodes[l.node]!.label}`);
+    const entries = numbered.map((l) => `${l.number}: ${nodes[l.node]!.label}`);
     const colW = Math.min(W - 2 * PAD - 8, Math.max(...entries.map((s) => textWidth(s, KEY_SIZE))) + 16);
     const cols = Math.max(1, Math.min(4, Math.floor((W - 2 * PAD - 8 + 16) / Math.max(colW, 150))));
     const cellW = (W - 2 * PAD - 8) / cols;
     const rows = Math.ceil(entries.length / cols);
-    const rowH = 16;
+    // column by column; a name longer than its column wraps onto more lines
+    const top = head.box.y1 + 4;
+    let yy = top;
     entries.forEach((s, k) => {
       const col = Math.floor(k / rows);
-      const row = k % rows;
-      const text = fitText(s, cellW - 12, KEY_SIZE);
-      key.push(placeText([{ text, size: KEY_SIZE }], PAD + 4 + col * cellW, head.box.y1 + 4 + row * rowH, 0, 0));
+      if (k % rows === 0) yy = top;
+      const t = placeText(wrapText(s, cellW - 12, KEY_SIZE).map((text) => ({ text, size: KEY_SIZE })), PAD + 4 + col * cellW, yy, 0, 0);
+      key.push(t);
+      yy = t.box.y1 + 2;
     });
     bottom = key[key.length - 1] ? Math.max(...key.map((t) => t.box.y1)) + PAD : bottom;
   }

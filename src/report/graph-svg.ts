@@ -53,9 +53,11 @@ export interface GraphPicture {
   readonly title: string;
   /** Legend text of the ring drawn around marked classes (default "bottleneck group"). */
   readonly ringLabel?: string;
+  /** Width of the drawing in pixels (default 760, the report's column; at least 200). */
+  readonly width?: number;
 }
 
-const W = 760;
+const WIDTH = 760;
 const DROP_DASH = '4 4';
 const CANDIDATE_DASH = '6 5';
 
@@ -104,6 +106,7 @@ function styles(pic: GraphPicture): Style[] {
 
 /** Positions, text boxes and legend of the drawing (what graphSvg draws). */
 export function graphScene(pic: GraphPicture): GraphScene {
+  const W = Math.max(200, Math.round(pic.width ?? WIDTH));
   const s = styles(pic);
   const geometry = layoutGraphDrawing({
     nodes: pic.nodes.map((v) => ({ id: v.id, label: v.label, rate: v.rate, ...(v.group !== undefined ? { group: v.group } : {}), ...(v.bottleneck ? { ringed: true } : {}) })),
@@ -111,7 +114,7 @@ export function graphScene(pic: GraphPicture): GraphScene {
     rateLines: pic.nodes.map((v) => `${fmtRate(v.rate)}/${pic.timeUnit}`),
     width: W,
   });
-  const legend = legendLayout(legendItems(pic), W, 20);
+  const legend = legendLayout(legendItems(pic), W, W < 400 ? 8 : 20);
   const legendTop = geometry.height + 8;
   const texts: Array<GraphScene['texts'][number]> = [];
   for (const l of geometry.labels) if (l) texts.push({ kind: l.number === null ? 'label' : 'number', box: l.text.box });
@@ -122,12 +125,13 @@ export function graphScene(pic: GraphPicture): GraphScene {
   return { width: W, height: Math.ceil(legendTop + legend.height + 6), geometry, legend, legendTop, texts };
 }
 
-/** The SVG markup of the graph (width 760; the height grows with the drawing). */
+/** The SVG markup of the graph (760 wide unless told otherwise; the height grows with the drawing). */
 export function graphSvg(pic: GraphPicture): Markup {
   const scene = graphScene(pic);
   const g = scene.geometry;
   const s = styles(pic);
   const total = scene.height;
+  const W = scene.width;
 
   const hulls = g.hulls.map((d) => html`<circle class="cluster" cx="${f1(d.x)}" cy="${f1(d.y)}" r="${f1(d.r)}" fill="${PANEL}" stroke="${RULE}"/>`);
   const captions = g.captions.map((c) => textMarkup(c, 'caption', [MUTED]));
@@ -170,7 +174,7 @@ export function graphSvg(pic: GraphPicture): Markup {
     else labels.push(textMarkup(l.text, 'node-label', [INK, MUTED]));
   });
   const key = g.key.map((t, k) => textMarkup(t, k === 0 ? 'key-head' : 'key-entry', [INK]));
-  const legend = html`<line x1="20" x2="${W - 20}" y1="${f1(scene.legendTop)}" y2="${f1(scene.legendTop)}" stroke="${RULE}"/>${legendMarkup(scene.legend, scene.legendTop, INK)}`;
+  const legend = html`<line x1="${scene.legend.cells[0]?.x ?? 20}" x2="${W - (scene.legend.cells[0]?.x ?? 20)}" y1="${f1(scene.legendTop)}" y2="${f1(scene.legendTop)}" stroke="${RULE}"/>${legendMarkup(scene.legend, scene.legendTop, INK)}`;
   return html`<svg class="chart graph" xmlns="http://www.w3.org/2000/svg" viewBox="0 0 ${W} ${total}" width="${W}" height="${total}" role="img" aria-labelledby="graph-title"><title id="graph-title">${pic.title}</title><style>.graph text{font-family:system-ui,sans-serif;fill:${INK}}</style><rect width="${W}" height="${total}" fill="${PAPER}"/><g class="clusters">${hulls}</g><g class="edges">${lines}</g><g class="nodes">${discs}</g><g class="labels">${captions}${labels}${words}</g>${key.length > 0 ? html`<g class="key">${key}</g>` : ''}${legend}</svg>`;
 }
 

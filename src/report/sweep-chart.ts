@@ -13,7 +13,7 @@ import { DASH, INK, MUTED, SERIES, SYMBOL, type SeriesRole } from './palette.js'
 import { Plot, renderPlot, type PlotFrame } from './plot-dom.js';
 import { legendLayout, legendMarkup, type LegendItem } from './svg-legend.js';
 import { textSvg } from './svg-text.js';
-import { fitText, textWidth } from './text-metrics.js';
+import { fitText, textWidth, wrapText } from './text-metrics.js';
 import { fmt } from './units.js';
 
 export interface SweepCurve {
@@ -121,7 +121,7 @@ export function sweepChart(input: SweepChartInput): Markup {
   const longest = Math.max(40, ...names.map((s) => textWidth(`${s} =`, LABEL_SIZE, true)));
   const marginRight = Math.min(190, longest + 18);
   const marginLeft = 64;
-  const xLabel = wrap(`${input.loadLabel} →`, WIDTH - marginLeft - 12, 12);
+  const xLabel = wrapText(`${input.loadLabel} →`, WIDTH - marginLeft - 12, 12);
   const footerH = xLabel.length * 15 + 4;
 
   const marks: Plot.Markish[] = [];
@@ -226,19 +226,3 @@ export function lineSample(s: CurveStyle): Markup {
   return html`<line x1="1" y1="0" x2="35" y2="0" stroke="${s.colour}" stroke-width="2.6" stroke-linecap="round"${s.dash ? raw(` stroke-dasharray="${s.dash}"`) : ''}/><path d="${markerPath(s.shape, 4, 18, 0)}" fill="${s.colour}" stroke="white" stroke-width="0.8"/>`;
 }
 
-/** Words of `text` in lines of at most `width` pixels (a word longer than a line is shortened). */
-export function wrap(text: string, width: number, size: number): string[] {
-  const words = text.split(/\s+/).filter((w) => w !== '');
-  const lines: string[] = [];
-  let line = '';
-  for (const w of words) {
-    const next = line ? `${line} ${w}` : w;
-    if (textWidth(next, size) <= width || line === '') line = next;
-    else {
-      lines.push(line);
-      line = w;
-    }
-  }
-  if (line) lines.push(line);
-  return lines.map((l) => fitText(l, width, size));
-}

@@ -53,3 +53,33 @@ export function fitText(text: string, maxWidth: number, size: number, bold = fal
   const base = space >= Math.max(3, cut.length * 0.6) ? cut.slice(0, space) : cut;
   return `${base.replace(/[\s\-_.:/(,]+$/, '')}…`;
 }
+
+/** Shortens `text` to at most `maxWidth` pixels by cutting its middle ("Station…ill 12"), keeping both ends. */
+export function fitMiddle(text: string, maxWidth: number, size: number, bold = false): string {
+  if (textWidth(text, size, bold) <= maxWidth) return text;
+  const chars = [...text];
+  let keep = chars.length - 1;
+  const cut = (k: number): string => {
+    const tail = Math.floor(k * 0.45);
+    return `${chars.slice(0, k - tail).join('').trimEnd()}…${chars.slice(chars.length - tail).join('').trimStart()}`;
+  };
+  while (keep > 2 && textWidth(cut(keep), size, bold) > maxWidth) keep--;
+  return cut(keep);
+}
+
+/** Words of `text` in lines of at most `maxWidth` pixels (a word longer than a line is shortened with "…"). */
+export function wrapText(text: string, maxWidth: number, size: number, bold = false): string[] {
+  const words = text.split(/\s+/).filter((w) => w !== '');
+  const lines: string[] = [];
+  let line = '';
+  for (const w of words) {
+    const next = line ? `${line} ${w}` : w;
+    if (textWidth(next, size, bold) <= maxWidth || line === '') line = next;
+    else {
+      lines.push(line);
+      line = w;
+    }
+  }
+  if (line) lines.push(line);
+  return lines.map((l) => fitText(l, maxWidth, size, bold));
+}

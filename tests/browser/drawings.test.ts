@@ -8,7 +8,7 @@ import { paretoChart } from '../../src/report/pareto-chart.js';
 import { REPORT_CSS } from '../../src/report/report-css.js';
 import { sweepChart } from '../../src/report/sweep-chart.js';
 import { waitChart } from '../../src/report/wait-chart.js';
-import { graphsOf, paretoOf, sweepOf, waitsOf } from '../helpers/drawing-fixtures.js';
+import { graphsOf, narrowGraph, paretoOf, sweepOf, waitsOf } from '../helpers/drawing-fixtures.js';
 
 // Renders every drawing of the report at 16 and 40 classes (seeded, invented designs) in headless
 // Chromium (Debian's package at /usr/bin/chromium, driven by playwright-core; no browser is ever
@@ -34,6 +34,8 @@ for (const n of [16, 40]) {
   drawings.push({ id: `pareto-${n}`, markup: paretoChart(paretoOf(n)).html, graph: false });
   drawings.push({ id: `waits-${n}`, markup: waitChart(waitsOf(n, n)).html, graph: false });
 }
+// a narrow drawing where some names do not fit: numbers beside the discs and a key under them
+drawings.push({ id: 'graph-narrow-key', markup: graphSvg(narrowGraph(3)).html, graph: true });
 
 // A control drawing with two overprinting texts, a text on a disc and a shape outside the viewBox:
 // the measurement must find all three, so that a clean result elsewhere means something.
@@ -134,7 +136,7 @@ describe.skipIf(!run)('drawings in headless Chromium at 16 and 40 classes', () =
     expect(c.outside.length).toBe(1);
   });
 
-  it('measures every drawing (16 and 40 classes: graph in three designs, load sweep, cost chart, waits)', () => {
+  it('measures every drawing (16 and 40 classes: graph in three designs, load sweep, cost chart, waits; a narrow graph with a key)', () => {
     expect(measured.map((m) => m.id)).toEqual([...drawings.map((d) => d.id), 'control']);
     for (const m of measured) if (m.id !== 'control') expect(m.texts, m.id).toBeGreaterThan(5);
   });
@@ -148,6 +150,24 @@ describe.skipIf(!run)('drawings in headless Chromium at 16 and 40 classes', () =
       expect(m.small, 'texts under 10 px').toEqual([]);
     });
   }
+
+  it('in print, every drawing keeps its proportions and fits one A4 page (at most 240 mm tall)', async () => {
+    await page.emulateMedia({ media: 'print' });
+    const sizes = await page.$$eval('figure > svg', (svgs: any[]) =>
+      svgs.map((s) => {
+        const r = s.getBoundingClientRect();
+        const vb = s.viewBox.baseVal;
+        return { id: s.parentElement.id, w: r.width, h: r.height, ratio: vb.width / vb.height };
+      }),
+    );
+    await page.emulateMedia({ media: 'screen' });
+    const mm = 96 / 25.4;
+    for (const s of sizes) {
+      expect(s.w * s.h, s.id).toBeGreaterThan(0);
+      expect(s.h, s.id).toBeLessThanOrEqual(240 * mm + 1);
+      expect(s.w / s.h, s.id).toBeCloseTo(s.ratio, 1);
+    }
+  });
 
   it('saves one screenshot per drawing under .test-output/drawings/', async () => {
     for (const d of drawings) {

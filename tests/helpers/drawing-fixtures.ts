@@ -99,6 +99,16 @@ export function denseGroups(groups: number, size: number, seed: number): GraphPi
   return { nodes, edges: edgeKinds(rng, dedupe(pairs), dedupe(candidates.filter(([a, b]) => a !== b), pairs)), timeUnit: 'week', title: `Dense groups, ${n} classes` };
 }
 
+/** A drawing far narrower than the report's column, so that some names do not fit and are numbered. */
+export function narrowGraph(seed = 3): GraphPicture {
+  const rng = new Rng(seed);
+  const n = 24;
+  const nodes: GraphNode[] = Array.from({ length: n }, (_, i) => ({ id: `k${i}`, label: `Class with a long name ${i} <&>`, rate: rng.uniform(0.1, 3) }));
+  const edges: GraphEdge[] = [];
+  for (let i = 0; i < n; i++) for (let j = i; j < n; j++) if (rng.chance(0.3)) edges.push({ a: i, b: j, kind: rng.chance(0.2) ? 'fund' : 'today', matchRate: 1 });
+  return { nodes, edges, timeUnit: 'hour', title: 'Narrow drawing', width: 220 };
+}
+
 function dedupe(list: Array<[number, number]>, taken: Array<[number, number]> = []): Array<[number, number]> {
   const seen = new Set(taken.map(([a, b]) => `${Math.min(a, b)},${Math.max(a, b)}`));
   const out: Array<[number, number]> = [];

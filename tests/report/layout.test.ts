@@ -1,9 +1,10 @@
 import { describe, expect, it } from 'vitest';
 import { groupClasses } from '../../src/report/graph-groups.js';
+import { parseHTML } from 'linkedom';
 import { graphScene, graphSvg } from '../../src/report/graph-svg.js';
 import { boxesMeet, boxInside, discMeetsBox, segmentMeetsBox } from '../../src/report/label-placement.js';
 import { graphDistances, layoutGraph, stress, stressPositions } from '../../src/report/layout.js';
-import { graphsOf, zoneBands } from '../helpers/drawing-fixtures.js';
+import { graphsOf, narrowGraph, zoneBands } from '../helpers/drawing-fixtures.js';
 import { Rng } from '../helpers/random.js';
 
 // References: shortest-path distances of paths and cycles, derived by hand (|i − j| on a path,
@@ -241,5 +242,28 @@ describe('graph drawing at 16–64 classes (seeded synthetic designs)', () => {
     const h = [16, 40].map((n) => graphScene(zoneBands(n / 4, 4, 9)));
     expect(h[1]!.height).toBeGreaterThan(h[0]!.height);
     expect(h[0]!.width).toBe(h[1]!.width);
+  });
+});
+
+describe('numbered key when names do not fit', () => {
+  // A drawing far narrower than the report's column leaves no room for some names: those classes
+  // get a number beside (or inside) their disc and a line in the key under the drawing.
+  it('numbers the classes without room, lists each once in the key with its full name, and keeps every text apart', () => {
+    const pic = narrowGraph(3);
+    const scene = graphScene(pic);
+    const numbered = scene.geometry.labels.filter((l) => l && l.number !== null);
+    expect(numbered.length).toBeGreaterThan(0);
+    expect(numbered.map((l) => l!.number).sort((a, b) => a! - b!)).toEqual(numbered.map((_, k) => k + 1));
+    const view = { x0: 0, y0: 0, x1: scene.width, y1: scene.height };
+    for (let i = 0; i < scene.texts.length; i++) {
+      expect(boxInside(scene.texts[i]!.box, view)).toBe(true);
+      for (let j = i + 1; j < scene.texts.length; j++) expect(boxesMeet(scene.texts[i]!.box, scene.texts[j]!.box)).toBe(false);
+    }
+    const doc = parseHTML(`<!doctype html><html><body>${graphSvg(pic).html}</body></html>`).document;
+    // an entry may wrap onto several lines (one tspan each)
+    const key = [...doc.querySelectorAll('text.key-entry')].map((t) => [...t.querySelectorAll('tspan')].map((s) => s.textContent).join(' '));
+    expect(key.length).toBe(numbered.length);
+    for (const l of numbered) expect(key).toContain(`${l!.number}: Class with a long name ${l!.node} <&>`);
+    expect(doc.querySelectorAll('text.key-head').length).toBe(1);
   });
 });
