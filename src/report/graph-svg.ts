@@ -8,7 +8,7 @@
 import { html, raw, type Markup } from './escape.js';
 import { layoutGraphDrawing, RING_GAP, type GraphGeometry } from './graph-layout.js';
 import type { Box, PlacedText } from './label-placement.js';
-import { CANDIDATE, DASH, INK, MUTED, PANEL, PAPER, RULE, SERIES } from './palette.js';
+import { CANDIDATE, DASH, INK, MUTED, PANEL, PAPER, RULE, SERIES, SERIES_TEXT } from './palette.js';
 import { legendBoxes, legendLayout, legendMarkup, type Legend, type LegendItem } from './svg-legend.js';
 import { textSvg } from './svg-text.js';
 
@@ -65,25 +65,27 @@ const f1 = (x: number): string => (Math.round(x * 10) / 10).toString();
 
 interface Style {
   readonly stroke: string;
+  /** Colour of the edge word (a text shade of the stroke). */
+  readonly ink: string;
   readonly dash: string;
   readonly width: number;
   readonly word: string | null;
 }
 
 function edgeStyle(e: GraphEdge, maxMatch: number, n: number): Style {
-  if (e.harmful && e.kind === 'candidate') return { stroke: SERIES.warning, dash: DASH.warning, width: 3, word: 'harmful' };
+  if (e.harmful && e.kind === 'candidate') return { stroke: SERIES.warning, ink: SERIES_TEXT.warning, dash: DASH.warning, width: 3, word: 'harmful' };
   switch (e.kind) {
     case 'today': {
       const share = maxMatch > 0 && e.matchRate !== undefined ? e.matchRate / maxMatch : 0.3;
       const extra = n <= 12 ? 7 : n <= 24 ? 5 : 4;
-      return { stroke: INK, dash: '', width: 1.2 + extra * share, word: null };
+      return { stroke: INK, ink: INK, dash: '', width: 1.2 + extra * share, word: null };
     }
     case 'drop':
-      return { stroke: SERIES.today, dash: DROP_DASH, width: 2, word: 'drop' };
+      return { stroke: SERIES.today, ink: SERIES_TEXT.today, dash: DROP_DASH, width: 2, word: 'drop' };
     case 'fund':
-      return { stroke: SERIES.recommended, dash: DASH.recommended, width: 3.2, word: e.harmful ? 'fund (harmful alone)' : 'fund' };
+      return { stroke: SERIES.recommended, ink: SERIES_TEXT.recommended, dash: DASH.recommended, width: 3.2, word: e.harmful ? 'fund (harmful alone)' : 'fund' };
     case 'candidate':
-      return { stroke: CANDIDATE, dash: CANDIDATE_DASH, width: 1.6, word: null };
+      return { stroke: CANDIDATE, ink: MUTED, dash: CANDIDATE_DASH, width: 1.6, word: null };
   }
 }
 
@@ -155,7 +157,7 @@ export function graphSvg(pic: GraphPicture): Markup {
       lines.push(html`<path class="${cls}" d="${shape.d}" fill="none" stroke="${st.stroke}" stroke-width="${f1(st.width)}" stroke-linecap="round"${dash}><title>${title}</title></path>`);
     }
     const w = g.words[k];
-    if (w) words.push(textMarkup(w, 'edge-word', [st.stroke]));
+    if (w) words.push(textMarkup(w, 'edge-word', [st.ink]));
   }
 
   const discs: Markup[] = [];

@@ -8,7 +8,7 @@
 import { html, type Markup } from './escape.js';
 import { boxAt, boxesMeet, cheapestFree, placeText, polylineMeetsBox, type Box, type PlacedText } from './label-placement.js';
 import { markerPath, markerReach, type MarkerShape } from './markers.js';
-import { INK, SERIES } from './palette.js';
+import { INK, SERIES, SERIES_TEXT } from './palette.js';
 import { Plot, renderPlot, type PlotFrame } from './plot-dom.js';
 import { legendLayout, legendMarkup, type LegendItem } from './svg-legend.js';
 import { textSvg } from './svg-text.js';
@@ -30,7 +30,7 @@ const FRONT = 'best designs (Pareto front)';
 const SHAPES: readonly MarkerShape[] = ['square', 'diamond', 'triangle', 'triangle-down', 'cross', 'times', 'hexagon'];
 const MARK = 4.6;
 const LABEL_SIZE = 11;
-const BASE_INK = '#3b4250';
+const BASE_INK = SERIES_TEXT.today;
 
 export function paretoChart(input: ParetoChartInput): Markup {
   const front = [...input.front].filter((p) => Number.isFinite(p.cost) && Number.isFinite(p.backlog)).sort((a, b) => a.cost - b.cost || a.backlog - b.backlog);
@@ -115,7 +115,7 @@ export function paretoChart(input: ParetoChartInput): Markup {
       const got = cheapestFree(cands, (k) => k, free, (b) => (step.length >= 4 && polylineMeetsBox(step, b) ? 3 : 0));
       if (got) {
         placed.push(got);
-        labels.push(textSvg(got, 'budget-label', [SERIES.warning]));
+        labels.push(textSvg(got, 'budget-label', [SERIES_TEXT.warning]));
       }
     }
     const baseMarks = bases.map((_, k) => html`<path class="marker baseline" transform="translate(${r1(basePx[k]![0])},${r1(basePx[k]![1])})" d="${markerPath(SHAPES[k % SHAPES.length]!, MARK)}"/>`);

@@ -9,7 +9,7 @@
 import { html, raw, type Markup } from './escape.js';
 import { boxAt, boxesMeet, cheapestFree, placeText, polylineMeetsBox, type Box, type PlacedText } from './label-placement.js';
 import { EXTRA_SHAPES, markerPath, markerReach, type MarkerShape } from './markers.js';
-import { DASH, INK, MUTED, SERIES, SYMBOL, type SeriesRole } from './palette.js';
+import { DASH, INK, MUTED, SERIES, SERIES_TEXT, SYMBOL, type SeriesRole } from './palette.js';
 import { Plot, renderPlot, type PlotFrame } from './plot-dom.js';
 import { legendLayout, legendMarkup, type LegendItem } from './svg-legend.js';
 import { textSvg } from './svg-text.js';
@@ -177,7 +177,7 @@ export function sweepChart(input: SweepChartInput): Markup {
       if (!got) continue;
       placed.push(got);
       if (got.lead) leaders.push(html`<line x1="${r1(ex + 3)}" y1="${r1(ey)}" x2="${r1(got.box.x0 - 1)}" y2="${r1((got.box.y0 + got.box.y1) / 2)}" stroke="${MUTED}" stroke-width="0.8"/>`);
-      labels.push(textSvg(got, 'curve-label', [styles[g[0]!]!.colour === SERIES.today ? INK : styles[g[0]!]!.colour]));
+      labels.push(textSvg(got, 'curve-label', [SERIES_TEXT[curves[g[0]!]!.role]]));
     }
     // crossover labels along the bottom of the frame, stacked upwards when they would collide
     for (const c of input.crossovers) {
@@ -192,7 +192,7 @@ export function sweepChart(input: SweepChartInput): Markup {
       const got = cheapestFree(cands, (k) => k, free, (b) => crossings(b) * 3);
       if (!got) continue;
       placed.push(got);
-      labels.push(textSvg(got, 'crossover-label', [SERIES.warning]));
+      labels.push(textSvg(got, 'crossover-label', [SERIES_TEXT.warning]));
     }
     return html`${textSvg(yLabel, 'axis-label', [INK], false)}${markers}${leaders}${labels}`;
   };

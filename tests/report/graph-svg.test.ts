@@ -130,6 +130,15 @@ describe('graphSvg with groups', () => {
     expect(captions).not.toContain('Intensive care');
   });
 
+  it('escapes group captions and column headers (text read back equals the original)', () => {
+    const odd: GraphPicture = { ...groupPic, nodes: nodes.map((v, i) => ({ ...v, group: i < 4 ? 'A <b> & "co"' : "B's" })) };
+    const doc = parse(graphSvg(odd).html);
+    const captions = [...doc.querySelectorAll('text.caption')].map((t) => t.textContent);
+    expect(captions).toContain('A <b> & "co"');
+    expect(captions).toContain("B's");
+    expect(doc.querySelectorAll('b').length).toBe(0);
+  });
+
   it('keeps the full name of every class in its tooltip', () => {
     const titles = [...parse(graphSvg(groupPic).html).querySelectorAll('g.node > title')].map((t) => t.textContent);
     nodes.forEach((v, i) => expect(titles[i]).toContain(v.label));
