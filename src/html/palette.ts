@@ -30,6 +30,17 @@ export const SERIES = {
 
 export type SeriesRole = keyof typeof SERIES;
 
+/**
+ * Text written in a series' colour (direct labels, edge words): the series colour where it reaches
+ * 4.5:1 on white (WCAG 2.1 text contrast), else a darker shade of the same hue.
+ */
+export const SERIES_TEXT: Record<SeriesRole, string> = {
+  today: '#4f555e',
+  recommended: SERIES.recommended,
+  alternative: '#1f5f8f',
+  warning: '#8a4a00',
+};
+
 /** Stroke dash patterns paired with the series (SVG stroke-dasharray; '' = solid). */
 export const DASH: Record<SeriesRole, string> = {
   today: '',

@@ -22,12 +22,8 @@ p { margin: 6px 0 10px; }
 .verdicts li:first-child { font-weight: 600; }
 .explain { color: #3b4250; font-size: 14px; max-width: 75ch; }
 figure { margin: 12px 0 6px; }
-figure svg, figure figure { max-width: 100%; height: auto; }
+figure svg { display: block; max-width: 100%; height: auto; }
 figcaption { color: ${MUTED}; font-size: 13px; margin-top: 4px; max-width: 80ch; }
-figure [class$="-swatches"], figure [class*="-swatches "] { font-size: 12.5px; margin: 2px 0 6px 6px; }
-figure [class$="-swatch"] > svg { width: 17px; height: 17px; }
-.line-legend { display: flex; flex-wrap: wrap; gap: 4px 18px; font-size: 12.5px; margin: 2px 0 6px 6px; }
-.line-key { display: inline-flex; align-items: center; gap: 6px; }
 .chart-box { border: 1px solid ${RULE}; border-radius: 4px; padding: 8px 8px 4px; background: #fff; }
 table { border-collapse: collapse; width: 100%; font-size: 13.5px; margin: 8px 0 12px; font-variant-numeric: tabular-nums; }
 table.changes th.change { width: 28%; }
@@ -56,11 +52,8 @@ footer { margin-top: 30px; padding-top: 10px; border-top: 1px solid ${RULE}; fon
   main { max-width: none; margin: 0; padding: 0; box-shadow: none; }
   h2 { break-after: avoid; page-break-after: avoid; }
   figure, table, .verdicts, tr { break-inside: avoid; page-break-inside: avoid; }
-  figure [class$="-swatches"], figure [class*="-swatches "] { font-size: 12.5px; margin: 2px 0 6px 6px; }
-figure [class$="-swatch"] > svg { width: 17px; height: 17px; }
-.line-legend { display: flex; flex-wrap: wrap; gap: 4px 18px; font-size: 12.5px; margin: 2px 0 6px 6px; }
-.line-key { display: inline-flex; align-items: center; gap: 6px; }
-.chart-box { border: none; padding: 0; }
+  .chart-box { border: none; padding: 0; }
+  figure svg { width: auto; height: auto; max-width: 100%; max-height: 240mm; margin: 0 auto; -webkit-print-color-adjust: exact; print-color-adjust: exact; }
   tr.flag-bad td, tr.flag-good td, th, .verdicts { -webkit-print-color-adjust: exact; print-color-adjust: exact; }
 }
 `;

@@ -45,11 +45,16 @@ describe('graphSvg', () => {
     expect(svg.querySelector('title')!.textContent).toBe(pic.title);
   });
 
-  it('draws one disc per class, area proportional to the rate (r = 7 + 17·sqrt(rate / max), so (r − 7)² ∝ rate)', () => {
+  it('draws one disc per class, area proportional to the rate above a floor ((r / r_max)² = rate / max rate)', () => {
     const discs = [...svg.querySelectorAll('g.node')].map((g) => Number(g.querySelectorAll('circle')[g.querySelectorAll('circle').length - 1]!.getAttribute('r')));
     expect(discs.length).toBe(4);
     const max = Math.max(...pic.nodes.map((v) => v.rate));
-    discs.forEach((r, i) => expect(((r - 7) / 17) ** 2).toBeCloseTo(pic.nodes[i]!.rate / max, 2));
+    const rMax = Math.max(...discs);
+    discs.forEach((r, i) => {
+      const share = pic.nodes[i]!.rate / max;
+      if ((rMax * Math.sqrt(share)) > 5.6) expect((r / rMax) ** 2).toBeCloseTo(share, 2);
+      else expect(r).toBeGreaterThanOrEqual(5.5); // the floor keeps tiny classes visible
+    });
   });
 
   it('marks the bottleneck class with a ring and lists it in the legend', () => {
@@ -59,7 +64,7 @@ describe('graphSvg', () => {
   });
 
   it('draws every compatibility: lines for pairs, a loop for the self-pair', () => {
-    expect(svg.querySelectorAll('line.edge').length).toBe(6);
+    expect(svg.querySelectorAll('path.edge').length).toBe(6);
     expect(svg.querySelectorAll('circle.edge').length).toBe(1);
   });
 
@@ -92,5 +97,61 @@ describe('graphSvg', () => {
 
   it('is deterministic', () => {
     expect(graphSvg(pic).html).toBe(graphSvg(pic).html);
+  });
+});
+
+describe('graphSvg with groups', () => {
+  // Invented: four wards × two shifts. Ids share a ward prefix, labels a ward name; the drawing
+  // should name each ward once (a caption) and each shift once (a column header), not 8 times.
+  const wards = ['icu', 'ed', 'med', 'surg'];
+  const names = ['Intensive care', 'Emergency department', 'Medical ward', 'Surgical ward'];
+  const nodes = wards.flatMap((w, k) =>
+    ['day', 'night'].map((s) => ({ id: `${w}-${s}`, label: `${names[k]}: ${s} shift offered`, rate: 1 + k * 0.5 + (s === 'night' ? 0.3 : 0) })),
+  );
+  const edges = [
+    ...wards.map((_, k) => ({ a: 2 * k, b: 2 * k + 1, kind: 'today' as const, matchRate: 0.5 })),
+    ...wards.slice(1).map((_, k) => ({ a: 2 * k, b: 2 * k + 2, kind: 'candidate' as const })),
+  ];
+  const groupPic: GraphPicture = { title: 'Wards', timeUnit: 'day', nodes, edges };
+
+  it('writes every ward and every shift exactly once, as captions', () => {
+    const doc = parse(graphSvg(groupPic).html);
+    const captions = [...doc.querySelectorAll('text.caption')].map((t) => t.textContent);
+    for (const n of names) expect(captions.filter((c) => c === n || c!.startsWith(n.slice(0, 8))).length).toBe(1);
+    expect(captions).toContain('day');
+    expect(captions).toContain('night');
+  });
+
+  it('an explicit group field wins over the id prefix', () => {
+    const byShift: GraphPicture = { ...groupPic, nodes: nodes.map((v) => ({ ...v, group: v.id.endsWith('day') ? 'Day shifts' : 'Night shifts' })) };
+    const captions = [...parse(graphSvg(byShift).html).querySelectorAll('text.caption')].map((t) => t.textContent);
+    expect(captions).toContain('Day shifts');
+    expect(captions).toContain('Night shifts');
+    expect(captions).not.toContain('Intensive care');
+  });
+
+  it('escapes group captions and column headers (text read back equals the original)', () => {
+    const odd: GraphPicture = { ...groupPic, nodes: nodes.map((v, i) => ({ ...v, group: i < 4 ? 'A <b> & "co"' : "B's" })) };
+    const doc = parse(graphSvg(odd).html);
+    const captions = [...doc.querySelectorAll('text.caption')].map((t) => t.textContent);
+    expect(captions).toContain('A <b> & "co"');
+    expect(captions).toContain("B's");
+    expect(doc.querySelectorAll('b').length).toBe(0);
+  });
+
+  it('keeps the full name of every class in its tooltip', () => {
+    const titles = [...parse(graphSvg(groupPic).html).querySelectorAll('g.node > title')].map((t) => t.textContent);
+    nodes.forEach((v, i) => expect(titles[i]).toContain(v.label));
+  });
+
+  it('sizes the SVG to hold its legend: every legend row lies inside the viewBox', () => {
+    const doc = parse(graphSvg(groupPic).html);
+    const [, , w, h] = doc.querySelector('svg')!.getAttribute('viewBox')!.split(' ').map(Number);
+    const texts = [...doc.querySelectorAll('g.legend text')];
+    expect(texts.length).toBeGreaterThan(2);
+    for (const t of texts) {
+      expect(Number(t.getAttribute('y'))).toBeLessThan(h! - 3);
+      expect(Number(t.getAttribute('x'))).toBeLessThan(w!);
+    }
   });
 });

@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { DASH, INK, MUTED, SERIES, SYMBOL, type SeriesRole } from '../../src/html/palette.js';
+import { DASH, INK, MUTED, SERIES, SERIES_TEXT, SYMBOL, type SeriesRole } from '../../src/html/palette.js';
 
 // References:
 // - relative luminance and contrast ratio: "Web Content Accessibility Guidelines (WCAG) 2.1", W3C
@@ -48,6 +48,18 @@ describe('report palette', () => {
     expect(contrast(INK, '#ffffff')).toBeGreaterThanOrEqual(4.5);
     expect(contrast(MUTED, '#ffffff')).toBeGreaterThanOrEqual(4.5);
     for (const c of Object.values(SERIES)) expect(contrast(c, '#ffffff')).toBeGreaterThanOrEqual(3);
+  });
+
+  it('text written in a series colour reaches 4.5:1 on white and keeps its series hue (within 25°, CIELAB)', () => {
+    const hue = (h: string): number => {
+      const [, a, b] = lab(seen(h, VISION['normal']!));
+      return (Math.atan2(b!, a!) * 180) / Math.PI;
+    };
+    for (const role of Object.keys(SERIES) as SeriesRole[]) {
+      expect(contrast(SERIES_TEXT[role], '#ffffff'), role).toBeGreaterThanOrEqual(4.5);
+      const d = Math.abs(((hue(SERIES_TEXT[role]) - hue(SERIES[role]) + 540) % 360) - 180);
+      expect(d, role).toBeLessThan(25);
+    }
   });
 
   for (const [vision, m] of Object.entries(VISION)) {
