@@ -126,6 +126,25 @@ program
   .action((file: string, opts: Record<string, unknown>) =>
     action(async () => (await import('./commands/simulate.js')).simulateCommand)({ ...opts, file }));
 
+program
+  .command('import')
+  .description('build a scenario file from spreadsheet tables (CSV): classes, compatibilities, candidates')
+  .requiredOption('--classes <file>', 'classes table: id, rate, and optional label, group, note, patience, weight, waitTarget, maxCompatibilities, maxAbandonment')
+  .option('--compatibilities <file>', 'compatibilities table: a, b, and optional removable, saving, value, note')
+  .option('--candidates <file>', 'candidates table: a, b, cost, and optional value, note')
+  .option('--name <name>', 'scenario name (default "imported scenario")')
+  .option('--time-unit <unit>', 'time unit of rates, waits and patience (default hour)')
+  .addOption(new Option('--budget <b>', 'what a recommended design may spend').argParser(Number))
+  .requiredOption('-o, --output <file>', 'scenario file to write, e.g. scenario.json')
+  .action((opts: { classes: string; output: string } & Record<string, unknown>) =>
+    action(async () => (await import('./commands/import.js')).importCommand)(opts));
+
+program
+  .command('starter')
+  .description('write a small commented example set of CSV files, a README and the scenario built from them')
+  .argument('<dir>', 'folder to write into (created if missing; existing files are never overwritten)')
+  .action((dir: string) => action(async () => (await import('./commands/starter.js')).starterCommand)({ dir }));
+
 try {
   await program.parseAsync(process.argv);
 } catch (e) {
