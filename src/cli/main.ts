@@ -145,6 +145,25 @@ program
   .argument('<dir>', 'folder to write into (created if missing; existing files are never overwritten)')
   .action((dir: string) => action(async () => (await import('./commands/starter.js')).starterCommand)({ dir }));
 
+program
+  .command('fit')
+  .description('arrival rates per class from an event log (CSV, one row per arrival), with exact 95 % intervals, patience and a Poisson check')
+  .argument('<log>', 'arrival log (CSV)')
+  .requiredOption('--time <column>', 'column with the arrival times: numbers in the time unit, or ISO 8601 timestamps')
+  .requiredOption('--class <column>', 'column with the class of each arrival')
+  .option('--outcome <column>', 'column with matched / abandoned / waiting (for patience; needs --wait)')
+  .option('--wait <column>', 'column with the time each item waited, in the time unit')
+  .option('--time-unit <unit>', 'unit of numeric times and of every rate (second, minute, hour, day, week; default hour)')
+  .addOption(new Option('--bands <n>', 'rates in N equal parts of the window').argParser(Number).conflicts('bandHours'))
+  .option('--band-hours <list>', 'rates per hours of the day, e.g. 0-7,7-10,10-16,16-19,19-24')
+  .option('--from <time>', 'start of the observation window (default: estimated from the log)')
+  .option('--to <time>', 'end of the observation window (default: estimated from the log)')
+  .option('--compatibilities <file>', 'compatibilities table (CSV, as for import): -o then writes a full scenario')
+  .option('--json', 'machine-readable output')
+  .option('-o, --output <file>', 'write the fitted classes as a scenario file (a fragment, or full with --compatibilities)')
+  .action((file: string, opts: { time: string; class: string } & Record<string, unknown>) =>
+    action(async () => (await import('./commands/fit.js')).fitCommand)({ ...opts, file }));
+
 try {
   await program.parseAsync(process.argv);
 } catch (e) {

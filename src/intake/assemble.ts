@@ -1,9 +1,10 @@
 /**
  * Puts located entries together into a scenario document and validates it with the project's
- * scenario validator (and the recommender fields' checker), reporting each problem at the CSV row
+ * scenario validator (and the checkers of the recommender fields and demand variants), reporting each problem at the CSV row
  * and column the entry came from. Throws InvalidTableError listing every problem of every file.
  */
 import { InvalidScenarioError, InvalidTableError, type ScenarioProblem, type TableProblem } from '../errors.js';
+import { demandVariants } from '../model/demand.js';
 import { readDesignFields } from '../model/design-fields.js';
 import type { Scenario } from '../model/scenario.js';
 import { validateScenario } from '../model/validate.js';
@@ -16,6 +17,8 @@ export interface ScenarioParts {
   readonly classes: readonly Located[];
   readonly compatibilities?: readonly Located[];
   readonly candidates?: readonly Located[];
+  /** Further top-level fields (e.g. `demand`, `data`), written after the others. */
+  readonly extra?: Readonly<Record<string, unknown>>;
 }
 
 export interface Assembled {
@@ -51,6 +54,7 @@ export function assembleScenario(parts: ScenarioParts, problems: readonly TableP
     classes: parts.classes.map((c) => c.entry),
     compatibilities: (parts.compatibilities ?? []).map((c) => c.entry),
     candidates: (parts.candidates ?? []).map((c) => c.entry),
+    ...parts.extra,
   };
   const all = [...problems];
   const seen = new Set(all.map((p) => `${p.file}\u0000${p.row}\u0000${p.column}`));
@@ -66,6 +70,7 @@ export function assembleScenario(parts: ScenarioParts, problems: readonly TableP
   try {
     scenario = validateScenario(document, fallback);
     readDesignFields(scenario, fallback);
+    demandVariants(scenario, fallback);
   } catch (e) {
     if (!(e instanceof InvalidScenarioError)) throw e;
     add(e.problems);
