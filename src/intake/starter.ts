@@ -1,9 +1,10 @@
 /**
  * `starter`: a small commented example set of CSV files for an invented scenario (peer study
- * partners on a tutoring marketplace), a README saying how to import them, and the scenario built
- * from them by the import code itself.
+ * partners on a tutoring marketplace), a README saying how to import them, the scenario built from
+ * them by the import code itself, and an example arrival log for `fit`.
  */
 import { importScenario } from './import-scenario.js';
+import { starterLog, type LogClass } from './starter-log.js';
 
 /** The import options the starter's scenario is built with (and the README shows). */
 export const STARTER_IMPORT = { name: 'Peer study partners (tutoring marketplace, weekday evening)', timeUnit: 'hour', budget: 8 } as const;
@@ -51,6 +52,7 @@ classes.csv          the kinds of learners, their arrival rates per hour and opt
 compatibilities.csv  which kinds can be paired today (removable ones with what dropping saves)
 candidates.csv       pairings a design may add, with what each costs
 scenario.json        the scenario built from the three files by the command below
+arrivals.csv         an example arrival log (one invented evening), to measure rates from
 
 Lines starting with # are comments; empty cells mean "not given". Edit the files in a spreadsheet
 or text editor, then build the scenario again:
@@ -65,8 +67,12 @@ and look at it:
   edgewise evaluate scenario.json
   edgewise recommend scenario.json
 
-Rates measured from an arrival log (one row per arrival) can come from
-"edgewise fit LOG.csv --time COLUMN --class COLUMN".
+Rates and patience can be measured from an arrival log (one row per arrival) instead:
+
+  edgewise fit arrivals.csv --time arrived --class class --outcome outcome --wait waited
+
+prints each class's rate with its 95 % interval; add
+"--compatibilities compatibilities.csv -o fitted.json" to write a scenario with the measured rates.
 `;
 
 export interface StarterFile {
@@ -88,5 +94,6 @@ export function starterFiles(): StarterFile[] {
     { name: 'candidates.csv', text: CANDIDATES },
     { name: 'README.txt', text: README },
     { name: 'scenario.json', text: `${JSON.stringify(document, null, 2)}\n` },
+    { name: 'arrivals.csv', text: starterLog(document['classes'] as LogClass[]) },
   ];
 }

@@ -3,6 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { evaluateCommand } from '../../src/cli/commands/evaluate.js';
+import { fitCommand } from '../../src/cli/commands/fit.js';
 import { importCommand } from '../../src/cli/commands/import.js';
 import { starterCommand } from '../../src/cli/commands/starter.js';
 import { loadScenario } from '../../src/cli/load.js';
@@ -110,7 +111,7 @@ describe('edgewise starter', () => {
     const r = await runCommand(starterCommand, { dir: 'start' }, dir);
     expect(r.code).toBe(0);
     const at = join(dir, 'start');
-    expect(readdirSync(at).sort()).toEqual(['README.txt', 'candidates.csv', 'classes.csv', 'compatibilities.csv', 'scenario.json']);
+    expect(readdirSync(at).sort()).toEqual(['README.txt', 'arrivals.csv', 'candidates.csv', 'classes.csv', 'compatibilities.csv', 'scenario.json']);
     expect(readFileSync(join(at, 'README.txt'), 'utf8')).toMatch(/edgewise import --classes classes\.csv --compatibilities compatibilities\.csv/);
     expect(readFileSync(join(at, 'classes.csv'), 'utf8')).toMatch(/^# /);
     // the README's command, run on the written files, rebuilds the same scenario
@@ -124,6 +125,11 @@ describe('edgewise starter', () => {
     const e = await runCommand(evaluateCommand, { file: 'scenario.json', json: true }, at);
     expect(e.code).toBe(0);
     expect(JSON.parse(e.out).stable).toBe(true);
+    // the README's fit command runs on the example log and writes a scenario with the same classes
+    expect(readFileSync(join(at, 'README.txt'), 'utf8')).toMatch(/edgewise fit arrivals\.csv --time arrived --class class --outcome outcome --wait waited/);
+    const f = await runCommand(fitCommand, { file: 'arrivals.csv', time: 'arrived', class: 'class', outcome: 'outcome', wait: 'waited', compatibilities: 'compatibilities.csv', output: 'fitted.json' }, at);
+    expect(f.code).toBe(0);
+    expect(loadScenario('fitted.json', at).classes.map((c) => c.id).sort()).toEqual(loadScenario('scenario.json', at).classes.map((c) => c.id).sort());
     const again = await runCommand(starterCommand, { dir: 'start' }, dir);
     expect(again.code).toBe(2);
     expect(again.err).toMatch(/refusing to overwrite/);

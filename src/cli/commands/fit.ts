@@ -32,7 +32,8 @@ export function renderFit(r: FitResult): string {
   const parts: string[] = [`${r.source} — arrival rates per class (per ${u})`];
   const how = r.timeFormat === 'iso' ? `ISO timestamps (UTC where no offset is written), converted to ${u}s` : `numbers, read as ${u}s (--time-unit)`;
   const est = r.window.estimated ? ', estimated: first to last arrival plus one mean gap at each end' : '';
-  parts.push(`times: ${how} · window ${rec.window.from} to ${rec.window.to} (${num(r.window.length)} ${u}s${est}) · ${r.arrivals} arrivals`);
+  const at = (v: number | string): string => (typeof v === 'string' ? v.replace(/\.\d+Z$/, 'Z') : num(v));
+  parts.push(`times: ${how} · window ${at(rec.window.from)} to ${at(rec.window.to)} (${num(r.window.length)} ${u}s${est}) · ${r.arrivals} arrivals`);
   const withPatience = rec.classes.some((c) => c.patience);
   const t = table(
     ['class', 'arrivals', `rate /${u}`, '95 % interval (exact)', 'dispersion p', ...(withPatience ? [`mean patience (${u})`, '95 % interval', 'abandoned'] : [])],
