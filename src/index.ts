@@ -56,3 +56,11 @@ export { sweep, applyChanges, type SweepResult, type SweepCurve, type SweepCross
 export { growthLimit, GROWTH_LIMIT_METHOD } from './design/growth-limit.js';
 export { sensitivityRecord, type SensitivityRecord } from './report/sensitivity-record.js';
 export { sweepRecord, sweepCsv, type SweepRecord } from './report/sweep-record.js';
+export { importScenario, type ImportInput } from './intake/import-scenario.js';
+export { starterFiles, type StarterFile } from './intake/starter.js';
+export { fitLog, type FitOptions, type FitResult, type ClassFit, type BandFit } from './intake/fit-log.js';
+export { fitRecord } from './intake/fit-record.js';
+export { fitScenario, type FitScenarioOptions } from './intake/fit-scenario.js';
+export { poissonRateInterval } from './intake/poisson-interval.js';
+export { fitPatience, type PatienceFit } from './intake/patience-fit.js';
+export { dispersionTest, type Dispersion } from './intake/dispersion.js';
