@@ -157,4 +157,19 @@ describe('readCsvTable', () => {
       { row: 6, cells: ['y', 'room #3'] },
     ]);
   });
+
+  it('reads a table without quotes (the fast path) exactly as the same table with a quoted cell', () => {
+    const plain = '\uFEFF# c\r\n  # indented comment\r\nid;note\r\nx;a\r\n\r\n \r\ny; room #3 \r\n;\r\nz;b';
+    const quoted = plain.replace('x;a', 'x;"a"');
+    const a = readCsvTable(plain, 'f.csv', [])!;
+    const b = readCsvTable(quoted, 'f.csv', [])!;
+    expect(a).toEqual(b);
+    expect(a.delimiter).toBe(';');
+    expect(a.headerRow).toBe(3);
+    expect(a.rows).toEqual([
+      { row: 4, cells: ['x', 'a'] },
+      { row: 7, cells: ['y', 'room #3'] },
+      { row: 9, cells: ['z', 'b'] },
+    ]);
+  });
 });
