@@ -56,6 +56,8 @@ export function assembleScenario(parts: ScenarioParts, problems: readonly TableP
     candidates: (parts.candidates ?? []).map((c) => c.entry),
     ...parts.extra,
   };
+  // no class could be read: the tables' problems say why; the validator would only add "empty model"
+  if (parts.classes.length === 0 && problems.length > 0) throw new InvalidTableError(problems);
   const all = [...problems];
   const seen = new Set(all.map((p) => `${p.file}\u0000${p.row}\u0000${p.column}`));
   const add = (found: readonly ScenarioProblem[]): void => {
