@@ -39,6 +39,35 @@ export class ScenarioFileError extends EdgewiseError {
   }
 }
 
+/** One problem found in an input table (CSV), located by file, row (line as an editor shows it) and column. */
+export interface TableProblem {
+  readonly file: string;
+  /** Line number in the file, the header being row 1 (comment lines count, as in an editor). */
+  readonly row?: number;
+  /** Column name as written in the header. */
+  readonly column?: string;
+  readonly message: string;
+}
+
+/** One or more input tables are malformed: lists every problem at once, per file (exit 2). */
+export class InvalidTableError extends EdgewiseError {
+  readonly problems: readonly TableProblem[];
+  constructor(problems: readonly TableProblem[]) {
+    const files = [...new Set(problems.map((p) => p.file))];
+    const lines: string[] = [];
+    for (const file of files) {
+      const mine = problems.filter((p) => p.file === file);
+      lines.push(`${file}: ${mine.length} problem${mine.length === 1 ? '' : 's'}`);
+      for (const p of mine) {
+        const where = [p.row === undefined ? '' : `row ${p.row}`, p.column === undefined ? '' : `column ${p.column}`].filter((w) => w !== '').join(', ');
+        lines.push(`  - ${where === '' ? '' : `${where}: `}${p.message}`);
+      }
+    }
+    super(lines.join('\n'));
+    this.problems = problems;
+  }
+}
+
 /** Bad command-line usage or option value (exit 2). */
 export class UsageError extends EdgewiseError {}
 

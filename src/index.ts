@@ -39,3 +39,9 @@ export { renderJson, renderCsv } from './output/machine.js';
 export { renderDoc, type Block } from './output/text/doc.js';
 export { renderReport } from './html/report-html.js';
 export { toGraph, assignMetrics } from './output/graph.js';
+
+// intake: spreadsheets and event logs to scenarios
+export { importScenario, type ImportInput } from './intake/import-scenario.js';
+export { starterFiles, type StarterFile } from './intake/starter.js';
+export { fitLog, type FitOptions, type FitResult, type ClassFit } from './intake/fit-log.js';
+export { fitScenario } from './intake/fit-scenario.js';

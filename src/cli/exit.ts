@@ -1,6 +1,7 @@
 import {
   EdgewiseError,
   InfeasibleDesignError,
+  InvalidTableError,
   InterruptedError,
   InvalidScenarioError,
   ScenarioFileError,
@@ -18,7 +19,7 @@ import type { CommandIO } from './io.js';
  * --max-waiting · 5 an external solver failed · 130 interrupted.
  */
 export function exitCodeOf(e: unknown): number {
-  if (e instanceof InvalidScenarioError || e instanceof ScenarioFileError || e instanceof UsageError) return 2;
+  if (e instanceof InvalidScenarioError || e instanceof InvalidTableError || e instanceof ScenarioFileError || e instanceof UsageError) return 2;
   if (e instanceof UnstableDesignError || e instanceof InfeasibleDesignError) return 3;
   if (e instanceof TooLargeError) return 4;
   if (e instanceof SolverError) return 5;

@@ -57,3 +57,8 @@ export function loadContext(flags: ContextFlags, cwd: string): ScenarioContext {
     ...(flags.demand === undefined ? {} : { demand: flags.demand }),
   });
 }
+
+/** Reads an input file other than a scenario (a CSV table, a log) as text; ScenarioFileError (exit 2) if it cannot. */
+export function readInputFile(path: string, cwd: string): string {
+  return readInput(path, cwd, 'file');
+}

@@ -140,6 +140,44 @@ scenarioFlags(program.command('report').description('one self-contained HTML rep
   .option('--seed <s>', 'seed of the simulated figures shown when classes have patience (default 1)')
   .action((file: string, opts: Record<string, unknown>) => action('report', async () => (await import('./commands/report.js')).reportCommand)({ ...opts, file }));
 
+program
+  .command('import')
+  .description('build a scenario file from spreadsheet tables (CSV): classes, compatibilities, candidates')
+  .requiredOption('--classes <file>', 'classes table: id, rate, and optional label, group, note, patience, weight, waitTarget, maxCompatibilities, maxAbandonment')
+  .option('--compatibilities <file>', 'compatibilities table: a, b, and optional removable, saving, value, note')
+  .option('--candidates <file>', 'candidates table: a, b, cost, and optional value, note')
+  .option('--name <name>', 'scenario name (default "imported scenario")')
+  .option('--time-unit <unit>', 'time unit of rates, waits and patience (default hour)')
+  .addOption(new Option('--budget <b>', 'what a recommended design may spend').argParser(Number))
+  .requiredOption('-o, --output <file>', 'scenario file to write, e.g. scenario.json')
+  .action((opts: { classes: string; output: string } & Record<string, unknown>) =>
+    action('import', async () => (await import('./commands/import.js')).importCommand)(opts));
+
+program
+  .command('starter')
+  .description('write a small commented example set of CSV files, a README and the scenario built from them')
+  .argument('<dir>', 'folder to write into (created if missing; existing files are never overwritten)')
+  .action((dir: string) => action('starter', async () => (await import('./commands/starter.js')).starterCommand)({ dir }));
+
+program
+  .command('fit')
+  .description('arrival rates per class from an event log (CSV, one row per arrival), with exact 95 % intervals, patience and a Poisson check')
+  .argument('<log>', 'arrival log (CSV)')
+  .requiredOption('--time <column>', 'column with the arrival times: numbers in the time unit, or ISO 8601 timestamps')
+  .requiredOption('--class <column>', 'column with the class of each arrival')
+  .option('--outcome <column>', 'column with matched / abandoned / waiting (for patience; needs --wait)')
+  .option('--wait <column>', 'column with the time each item waited, in the time unit')
+  .option('--time-unit <unit>', 'unit of numeric times and of every rate (second, minute, hour, day, week; default hour)')
+  .addOption(new Option('--bands <n>', 'rates in N equal parts of the window').argParser(Number).conflicts('bandHours'))
+  .option('--band-hours <list>', 'rates per hours of the day, e.g. 0-7,7-10,10-16,16-19,19-24')
+  .option('--from <time>', 'start of the observation window (default: estimated from the log)')
+  .option('--to <time>', 'end of the observation window (default: estimated from the log)')
+  .option('--compatibilities <file>', 'compatibilities table (CSV, as for import): -o then writes a full scenario')
+  .option('--json', 'machine-readable output')
+  .option('-o, --output <file>', 'write the fitted classes as a scenario file (a fragment, or full with --compatibilities)')
+  .action((file: string, opts: { time: string; class: string } & Record<string, unknown>) =>
+    action('fit', async () => (await import('./commands/fit.js')).fitCommand)({ ...opts, file }));
+
 try {
   await program.parseAsync(process.argv);
 } catch (e) {

@@ -123,7 +123,7 @@ function graphSection(r: ReportRecord, name: Namer): Markup {
   }
   const overloaded = r.todayInstability ? new Set(r.todayInstability.certificate.set) : new Set(r.bottleneck?.set ?? []);
   const pic = {
-    nodes: r.classes.map((c) => ({ id: c.id, label: name(c.id), rate: c.rate, bottleneck: overloaded.has(c.id) })),
+    nodes: r.classes.map((c, k) => ({ id: c.id, label: name(c.id), rate: c.rate, bottleneck: overloaded.has(c.id), ...(r.inputs.classes[k]!.group ? { group: r.inputs.classes[k]!.group! } : {}) })),
     edges,
     timeUnit: r.timeUnit,
     title: `Compatibility graph of ${r.scenario}`,

@@ -42,6 +42,8 @@ export interface InputsRecord {
   readonly classes: Array<{
     readonly id: string;
     readonly label: string | null;
+    /** The class's group (drawn together in the graph), when the file gives one. */
+    readonly group: string | null;
     readonly rate: number;
     readonly patience: number | null;
     readonly weight: number | null;
@@ -99,6 +101,7 @@ function inputsOf(ctx: ScenarioContext): InputsRecord {
     classes: ctx.scenario.classes.map((c, k) => ({
       id: c.id,
       label: typeof c.label === 'string' && c.label !== '' ? c.label : null,
+      group: typeof c['group'] === 'string' && c['group'] !== '' ? (c['group'] as string) : null,
       rate: c.rate,
       patience: c.patience ?? null,
       weight: f.weight[k] === 1 ? null : f.weight[k]!,

@@ -10,7 +10,7 @@ import type { CommandIO } from '../io.js';
 import { loadContext, type ContextFlags } from '../load.js';
 import { checkMaxSets, checkWaitUnit, wholeNumber } from '../options.js';
 import { progressBar } from '../progress.js';
-import { checkOutputPath, writeAtomic } from '../write.js';
+import { prepareOutput, writeFileAtomic } from '../write.js';
 
 export interface RecommendCommandOptions extends ContextFlags, OutputOptions {
   readonly objective?: string;
@@ -37,7 +37,7 @@ export function recommendCommand(opts: RecommendCommandOptions, io: CommandIO): 
         checkWaitUnit(opts.waitUnit);
         if (opts.pick !== undefined && opts.save === undefined) throw new UsageError('--pick chooses the Pareto entry --save writes; give --save FILE too');
         const pick = opts.pick === undefined ? undefined : wholeNumber(opts.pick, '--pick', 1, 1);
-        if (opts.save !== undefined) savePath = checkOutputPath(opts.save, io.cwd, [opts.file, ...(opts.design ? [opts.design] : [])], '--save');
+        if (opts.save !== undefined) savePath = prepareOutput(opts.save, io.cwd, [opts.file, ...(opts.design ? [opts.design] : [])], '--save');
         const ctx = loadContext(opts, io.cwd);
         let total = 1;
         const input = {
@@ -70,7 +70,7 @@ export function recommendCommand(opts: RecommendCommandOptions, io: CommandIO): 
       after: (r: RecommendRecord, { ctx, pick }, io) => {
         if (!savePath) return;
         if (pick !== undefined && pick > r.pareto.length) throw new UsageError(`--pick ${pick}: the Pareto set has ${r.pareto.length} design${r.pareto.length === 1 ? '' : 's'}`);
-        writeAtomic(savePath, renderJson(savedDesign(ctx, r, pick)));
+        writeFileAtomic(savePath, renderJson(savedDesign(ctx, r, pick)));
         io.err(`saved ${pick === undefined ? 'the recommended design' : `Pareto design ${pick}`} to ${opts.save}\n`);
       },
       exitCode: (r) => (r.partial ? 130 : 0),

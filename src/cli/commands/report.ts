@@ -7,7 +7,7 @@ import { execute, type OutputOptions } from '../command.js';
 import type { CommandIO } from '../io.js';
 import { loadContext, type ContextFlags } from '../load.js';
 import { wholeNumber } from '../options.js';
-import { checkOutputPath, writeAtomic } from '../write.js';
+import { prepareOutput, writeFileAtomic } from '../write.js';
 
 export interface ReportOptions extends ContextFlags, OutputOptions {
   readonly output?: string;
@@ -26,7 +26,7 @@ export function reportCommand(opts: ReportOptions, io: CommandIO): Promise<numbe
   return execute(
     {
       load: (io) => {
-        target = checkOutputPath(opts.output ?? '', io.cwd, [opts.file, ...(opts.design ? [opts.design] : [])], '-o');
+        target = prepareOutput(opts.output ?? '', io.cwd, [opts.file, ...(opts.design ? [opts.design] : [])], '-o');
         const jobs = wholeNumber(opts.jobs, '--jobs', 1, 1, 256);
         const seed = wholeNumber(opts.seed, '--seed', 0, 1);
         return { ctx: loadContext(opts, io.cwd), jobs, seed };
@@ -34,7 +34,7 @@ export function reportCommand(opts: ReportOptions, io: CommandIO): Promise<numbe
       run: async ({ ctx, jobs, seed }, io) => {
         const r = await reportUseCase(ctx, { jobs, seed, ...(io.isTTY ? { onPhase: (p: string) => io.err(`edgewise report: ${p}…\n`) } : {}) });
         const page = renderReport(r, { generator: 'edgewise 0.2.0' });
-        writeAtomic(target, page);
+        writeFileAtomic(target, page);
         size = Buffer.byteLength(page);
         return r;
       },
