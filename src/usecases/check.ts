@@ -6,7 +6,7 @@ import { checkStability } from '../stability/check.js';
 import { certificateWithIds } from '../stability/certificate.js';
 import { recordBase, type ScenarioContext } from './context.js';
 import { instabilityOf } from './instability.js';
-import { byClass, setRecord, type InstabilityRecord, type RecordBase, type Reference, type SetRecord } from './records.js';
+import { byClass, setRecord, type InstabilityRecord, type RepairRecord, type RecordBase, type Reference, type SetRecord } from './records.js';
 import { demandNote } from './warnings.js';
 
 export interface CheckRecord extends RecordBase {
@@ -22,6 +22,8 @@ export interface CheckRecord extends RecordBase {
   readonly components: number;
   /** Unstable designs: the certificate and the repairs. */
   readonly instability: InstabilityRecord | null;
+  /** When unstable: the cheapest sets of allowed candidates that make it stable, cheapest first (as in `instability`). */
+  readonly repairs: RepairRecord[] | null;
 }
 
 export async function checkUseCase(ctx: ScenarioContext): Promise<CheckRecord> {
@@ -29,7 +31,8 @@ export async function checkUseCase(ctx: ScenarioContext): Promise<CheckRecord> {
   const r = checkStability(model);
   const base = { ...recordBase(ctx, 'check', [demandNote(ctx)]), reference: ctx.reference, components: r.components.length };
   if (!r.stable) {
-    return { ...base, stable: false, bottleneck: null, tightSets: [], headroom: null, instability: await instabilityOf(ctx, certificateWithIds(model, r.certificate!)) };
+    const instability = await instabilityOf(ctx, certificateWithIds(model, r.certificate!));
+    return { ...base, stable: false, bottleneck: null, tightSets: [], headroom: null, instability, repairs: instability.repairs };
   }
   return {
     ...base,
@@ -38,5 +41,6 @@ export async function checkUseCase(ctx: ScenarioContext): Promise<CheckRecord> {
     tightSets: r.tightSets.map((t) => setRecord(model, t)),
     headroom: byClass(model.ids, r.headroom),
     instability: null,
+    repairs: null,
   };
 }

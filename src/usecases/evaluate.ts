@@ -9,7 +9,7 @@ import { certificateWithIds } from '../stability/certificate.js';
 import { supportedDigits } from '../output/format.js';
 import { recordBase, type ScenarioContext } from './context.js';
 import { instabilityOf } from './instability.js';
-import { byClass, idsOf, pairIds, type InstabilityRecord, type PairIds, type RecordBase, type Reference } from './records.js';
+import { byClass, idsOf, pairIds, type InstabilityRecord, type RepairRecord, type PairIds, type RecordBase, type Reference } from './records.js';
 import { exactWarnings } from './warnings.js';
 
 export interface MatchRateRecord {
@@ -38,6 +38,8 @@ export interface EvaluateRecord extends RecordBase {
   readonly matchRates: MatchRateRecord[];
   readonly bottleneck: { readonly set: string[]; readonly spareCapacity: number; readonly capacity: number } | null;
   readonly instability: InstabilityRecord | null;
+  /** When unstable: the cheapest sets of allowed candidates that make it stable, cheapest first (as in `instability`). */
+  readonly repairs: RepairRecord[] | null;
 }
 
 export interface EvaluateOptions {
@@ -49,6 +51,7 @@ export async function evaluateUseCase(ctx: ScenarioContext, options: EvaluateOpt
   const stability = checkStability(model);
   const base = { ...recordBase(ctx, 'evaluate', exactWarnings(ctx)), reference: ctx.reference, method: 'exact' as const };
   if (!stability.stable) {
+    const instability = await instabilityOf(ctx, certificateWithIds(model, stability.certificate!));
     return {
       ...base,
       stable: false,
@@ -59,7 +62,8 @@ export async function evaluateUseCase(ctx: ScenarioContext, options: EvaluateOpt
       emptyProbability: null,
       matchRates: [],
       bottleneck: null,
-      instability: await instabilityOf(ctx, certificateWithIds(model, stability.certificate!)),
+      instability,
+      repairs: instability.repairs,
     };
   }
   const r = evaluateExact(model, { maxSets: options.maxSets ?? DEFAULT_MAX_SETS, timeUnit: ctx.scenario.timeUnit });
@@ -80,5 +84,6 @@ export async function evaluateUseCase(ctx: ScenarioContext, options: EvaluateOpt
     matchRates: Array.from({ length: model.m }, (_, e) => ({ pair: pairIds(model, model.edgeA[e]!, model.edgeB[e]!), rate: r.matchRates[e]!, share: r.matchRates[e]! / half })),
     bottleneck: b ? { set: idsOf(model, b.set), spareCapacity: b.slack, capacity: b.capacity } : null,
     instability: null,
+    repairs: null,
   };
 }

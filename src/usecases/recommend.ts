@@ -4,6 +4,7 @@
  * single-change optimal — every single-change verdict measured against it and against today's
  * design, the rules of thumb beside the set, and the ways out when today's design is unstable.
  */
+import { InfeasibleDesignError } from '../errors.js';
 import { checkStability } from '../stability/check.js';
 import { certificateWithIds } from '../stability/certificate.js';
 import { decide, type Decision } from '../design/decision/decide.js';
@@ -15,9 +16,9 @@ import type { ScenarioContext } from './context.js';
 import { recordBase } from './context.js';
 import { changePairs, designFigures, verdictRecord, type DesignFigures, type VerdictRecord } from './designs.js';
 import { instabilityOf } from './instability.js';
-import { finite, pairIds, type InstabilityRecord, type PairIds, type RecordBase } from './records.js';
+import { finite, pairIds, type InstabilityRecord, type RepairRecord, type PairIds, type RecordBase } from './records.js';
 import { exactWarnings } from './warnings.js';
-import { LP_DIGITS, roundFigure } from '../output/format.js';
+import { LP_DIGITS, num, roundFigure } from '../output/format.js';
 
 export interface ParetoEntry extends DesignFigures {
   /** True for the recommended design. */
@@ -74,6 +75,8 @@ export interface RecommendRecord extends RecordBase, DecisionPart {
   };
   /** When today's design is unstable: why, and the ways out. */
   readonly instability: InstabilityRecord | null;
+  /** When unstable: the cheapest sets of allowed candidates that make it stable, cheapest first (as in `instability`). */
+  readonly repairs: RepairRecord[] | null;
   /** True when the search was interrupted: the set is what was found so far. */
   readonly partial: boolean;
 }
@@ -129,7 +132,19 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
   const p = ctx.problem;
   const todayStability = checkStability(ctx.today);
   const instability = todayStability.stable ? null : await instabilityOf(ctx, certificateWithIds(ctx.today, todayStability.certificate!));
-  const rec = await recommend(p, input);
+  let rec: Recommendation;
+  try {
+    rec = await recommend(p, input);
+  } catch (e) {
+    const o = instability?.noRepair?.overloaded;
+    if (e instanceof InfeasibleDesignError && instability?.noRepair && o && o.set.length > 0) {
+      throw new InfeasibleDesignError(
+        `no stable design exists: even with every allowed candidate, {${o.set.join(', ')}} brings ${num(o.demand)}/${ctx.scenario.timeUnit} and only {${o.neighbours.join(', ')}} can serve it (${num(o.capacity)}/${ctx.scenario.timeUnit}). ${instability.noRepair.relief}` +
+          (instability.noRepair.blocked.length > 0 ? ` Rules block ${instability.noRepair.blocked.map((b) => `${b.pair[0]} ↔ ${b.pair[1]} (${b.rule})`).join(', ')}.` : ''),
+      );
+    }
+    throw e;
+  }
   const parts = decisionOf(ctx, rec, input);
   const todayDetails = designDetails(p, input.objective, Uint8Array.from(p.today), input.maxSets);
   const decision = decisionPart(ctx, input, parts, todayDetails);
@@ -169,6 +184,7 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
       milp: { cheapest: milpEntry(rec.milp.cheapest), ladder: rec.milp.ladder.map((l) => ({ budget: l.budget, design: l.design ? milpEntry(l.design) : null })) },
     },
     instability,
+    repairs: instability ? instability.repairs : null,
     partial: rec.partial,
   };
 }

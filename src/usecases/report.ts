@@ -249,5 +249,6 @@ export function decisionRecord(r: ReportRecord) {
     verdicts: d ? d.verdicts : [],
     noDecision: r.noDecision,
     instability: r.todayInstability,
+    repairs: r.todayInstability ? r.todayInstability.repairs : null,
   };
 }

@@ -15,7 +15,7 @@ import { sensitivity, type ChangeRule, type ChangeSpec, type SensitivityEntry } 
 import { supportedDigits } from '../output/format.js';
 import { pairRules, recordBase, type ScenarioContext } from './context.js';
 import { instabilityOf } from './instability.js';
-import { byClass, certificateRecord, finite, idsOf, pairIds, type CertificateRecord, type InstabilityRecord, type PairIds, type RecordBase, type Reference, type SetRecord } from './records.js';
+import { byClass, certificateRecord, finite, idsOf, pairIds, type CertificateRecord, type InstabilityRecord, type RepairRecord, type PairIds, type RecordBase, type Reference, type SetRecord } from './records.js';
 import { exactWarnings } from './warnings.js';
 
 export type ChangeVerdict = 'helps' | 'harmful' | 'no change' | 'worth dropping' | 'raises backlog' | 'breaks stability' | 'makes it stable' | 'still unstable' | 'not evaluated';
@@ -76,6 +76,8 @@ export interface SensitivityRecord extends RecordBase {
   /** What the rules cost: forbidden changes that would lower the backlog, largest saving first. */
   readonly ruleCosts: RuleCostRecord[];
   readonly instability: InstabilityRecord | null;
+  /** When unstable: the cheapest sets of allowed candidates that make it stable, cheapest first (as in `instability`). */
+  readonly repairs: RepairRecord[] | null;
 }
 
 export interface SensitivityInput {
@@ -209,6 +211,7 @@ export async function sensitivityUseCase(ctx: ScenarioContext, input: Sensitivit
     removals,
     ruleCosts,
     instability: null,
+    repairs: null,
   };
 }
 
@@ -252,6 +255,9 @@ async function unstableRecord(ctx: ScenarioContext, base: ReturnType<typeof reco
     additions: specs.filter((s) => s.kind === 'add').map(record).sort(order),
     removals: specs.filter((s) => s.kind === 'remove').map(record).sort(order),
     ruleCosts: [],
-    instability: await instabilityOf(ctx, cert),
+    ...(await (async () => {
+      const instability = await instabilityOf(ctx, cert);
+      return { instability, repairs: instability.repairs };
+    })()),
   };
 }
