@@ -1,6 +1,8 @@
 // The whole public API of edgewise. This file only re-exports.
 export * from './errors.js';
-export type { Scenario, ClassSpec, CompatibilitySpec, CandidateSpec } from './model/scenario.js';
+export type { Scenario, ClassSpec, CompatibilitySpec, CandidateSpec, RuleSpec, DemandVariantSpec, IdPair } from './model/scenario.js';
+export { scenarioFileSchema, scenarioJsonSchema } from './model/schema.js';
+export { LIMITS } from './model/limits.js';
 export { pairKey } from './model/scenario.js';
 export { parseScenario, validateScenario } from './model/validate.js';
 export { locateJsonError } from './model/json-locate.js';

@@ -34,8 +34,8 @@ function classesOf(scenario: Scenario): ReportClass[] {
   return scenario.classes.map((c) => ({ id: c.id, label: typeof c.label === 'string' && c.label.trim() !== '' ? c.label : c.id, rate: c.rate }));
 }
 
-function stringField(scenario: Scenario, key: string): string | null {
-  const v = scenario.extra[key];
+function stringField(scenario: Scenario, key: 'costUnit' | 'description' | 'itemWord'): string | null {
+  const v = scenario[key];
   return typeof v === 'string' && v.trim() !== '' ? v : null;
 }
 

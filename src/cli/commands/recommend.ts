@@ -78,7 +78,7 @@ export async function recommendCommand(opts: RecommendCommandOptions, io: Comman
   } finally {
     progress.stop();
   }
-  const costUnit = typeof scenario.extra.costUnit === 'string' ? scenario.extra.costUnit : undefined;
+  const costUnit = scenario.costUnit;
   const record = recommendationRecord(problem, rec, { scenario: scenario.name, costUnit });
   if (opts.json) io.out(`${JSON.stringify(record, null, 2)}\n`);
   else if (opts.csv) io.out(recommendationCsv(record));
