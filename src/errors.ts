@@ -99,7 +99,19 @@ export class InfeasibleDesignError extends EdgewiseError {
   override readonly exitCode = 3;
 }
 
-const fmt = (x: number): string => (Number.isInteger(x) ? x.toFixed(1) : x.toPrecision(4).replace(/\.?0+$/, ''));
+/**
+ * A rate for a sentence: whole numbers below a million with one decimal ("4.0"), others with four
+ * significant digits, trailing zeros of the mantissa dropped and the exponent kept whole
+ * ("2e-10", "1.235e+300").
+ */
+export function formatRate(x: number): string {
+  if (Number.isInteger(x) && Math.abs(x) < 1e6) return x.toFixed(1);
+  if (!Number.isFinite(x)) return String(x);
+  const [mantissa, exponent] = x.toPrecision(4).split('e') as [string, string | undefined];
+  const m = mantissa.includes('.') ? mantissa.replace(/\.?0+$/, '') : mantissa;
+  return exponent === undefined ? m : `${m}e${exponent}`;
+}
+const fmt = formatRate;
 
 function list(ids: readonly string[]): string {
   if (ids.length === 0) return 'nothing';
