@@ -89,6 +89,15 @@ export class TooLargeError extends EdgewiseError {
   }
 }
 
+/**
+ * The design is stable but so close to the stability boundary that double precision cannot give
+ * exact figures with any correct digit (exit 4, like a design too large for exact evaluation:
+ * estimate it with the simulator).
+ */
+export class PrecisionError extends EdgewiseError {
+  override readonly exitCode = 4;
+}
+
 /** An external solver failed or returned an answer that violates the constraints (exit 5). */
 export class SolverError extends EdgewiseError {
   override readonly exitCode = 5;

@@ -5,6 +5,7 @@
  * in binary floating point, so rates multiplied by any power of two give bit-identical figures, and
  * rates anywhere between 1e-300 and 1e300 stay far from overflow and underflow.
  */
+import type { CompiledModel } from './compile.js';
 
 /** The power of two nearest the mean of the positive finite values (1 when there is none). Never overflows. */
 export function powerOfTwoScale(values: ArrayLike<number>): number {
@@ -37,4 +38,14 @@ export function divided(values: ArrayLike<number>, scale: number): Float64Array 
   const out = new Float64Array(values.length);
   for (let i = 0; i < values.length; i++) out[i] = values[i]! / scale;
   return out;
+}
+
+/** The model with rates divided by a power of two near their mean, and that scale. */
+export function scaledModel(model: CompiledModel): { working: CompiledModel; scale: number } {
+  const scale = powerOfTwoScale(model.rates);
+  if (scale === 1) return { working: model, scale };
+  const rates = divided(model.rates, scale);
+  let total = 0;
+  for (let k = 0; k < model.n; k++) total += rates[k]!;
+  return { working: { ...model, rates, totalRate: total }, scale };
 }

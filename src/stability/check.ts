@@ -21,12 +21,12 @@
 import { UnstableDesignError } from '../errors.js';
 import type { CompiledModel } from '../model/compile.js';
 import { bipartition, components } from '../model/components.js';
-import { divided, powerOfTwoScale } from '../model/rate-scale.js';
+import { scaledModel } from '../model/rate-scale.js';
 import { solveWithJsLp } from '../solvers/jslp.js';
 import { SolverError } from '../errors.js';
 import { bipartiteCertificate, certificateWithIds, compareTight } from './certificate.js';
 import { DoubleCover } from './double-cover.js';
-import { exactSlack } from './exact-slack.js';
+import { exactSlack } from '../model/exact-slack.js';
 import { asTightSet, componentHeadroom } from './headroom.js';
 import { edgeFlowProgram, readEdgeFlow } from './programs.js';
 import type { ComponentStability, IndexCertificate, StabilityReport } from './report.js';
@@ -122,11 +122,7 @@ function judgeAll(model: CompiledModel, original: ArrayLike<number>, scale: numb
 /** Stability verdict, certificate or headroom and tightest sets of a compiled design. */
 export function checkStability(model: CompiledModel): StabilityReport {
   for (let k = 0; k < model.n; k++) if (!(model.rates[k]! > 0)) return checkWithZeroRates(model, checkStability);
-  const scale = powerOfTwoScale(model.rates);
-  const rates = divided(model.rates, scale);
-  let total = 0;
-  for (let k = 0; k < model.n; k++) total += rates[k]!;
-  const working: CompiledModel = scale === 1 ? model : { ...model, rates, totalRate: total };
+  const { working, scale } = scaledModel(model);
   return scaledReport(judgeAll(working, model.rates, scale), scale);
 }
 
