@@ -3,7 +3,7 @@ import { evaluateExact } from '../../src/exact/evaluate.js';
 import { compileGraph } from '../../src/model/compile.js';
 import { subModel } from '../../src/model/components.js';
 import { checkStability } from '../../src/stability/check.js';
-import { randomStableDesign, toModel } from '../helpers/designs.js';
+import { randomStableDesign } from '../helpers/designs.js';
 import { Rng } from '../helpers/random.js';
 
 // Classes of rate 0 (a demand variant in which a class has no arrivals). Reference, derived by
