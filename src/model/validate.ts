@@ -112,17 +112,18 @@ export function validateScenario(doc: unknown, source?: string): Scenario {
   if (!isObj(doc)) {
     throw new InvalidScenarioError([{ path: '', message: `a scenario must be a JSON object, found ${Array.isArray(doc) ? 'an array' : preview(doc)}` }], source);
   }
-  const deep = depthProblem(doc);
-  if (deep) throw new InvalidScenarioError([deep], source);
+  // entry counts past a limit are refused at once (that is what keeps huge files fast); a value
+  // nested too deep is one more problem (nothing below walks a value recursively)
   const sizes = sizeProblems(doc);
   if (sizes.length > 0) throw new InvalidScenarioError(sizes, source);
+  const deep = depthProblem(doc);
 
   const parsed = scenarioFileSchema.safeParse(doc);
   const raw: RawProblem[] = parsed.success ? [] : parsed.error.issues.flatMap((issue) => issueProblems(issue, doc));
   raw.push(...crossChecks(doc));
-  if (raw.length > 0 || !parsed.success) {
+  if (raw.length > 0 || !parsed.success || deep) {
     const seen = new Set<string>();
-    const problems: ScenarioProblem[] = [];
+    const problems: ScenarioProblem[] = deep ? [deep] : [];
     for (const p of inDocumentOrder(doc, raw)) {
       const path = formatPath(p.path);
       const key = `${path}\u0000${p.message}`;
