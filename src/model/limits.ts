@@ -10,7 +10,10 @@
  *   neighbours per class; the recommender's search space grows with the candidates.
  */
 export const LIMITS = {
-  /** Size of the file text, in UTF-16 code units (about bytes for ASCII files). */
+  /**
+   * Size of the file: bytes of a file on disk (src/cli/load.ts checks it before reading), UTF-16
+   * code units of a text given to parseScenario (the same for ASCII).
+   */
   fileChars: 16 * 1024 * 1024,
   /** Depth of nested arrays and objects, the document itself counting 1. */
   depth: 64,
