@@ -110,9 +110,15 @@ export class TooLargeError extends EdgewiseError {
   }
 }
 
+/**
+ * The design is stable but so close to the stability boundary that double precision cannot give
+ * exact figures with any correct digit (exit 4, like a design too large for exact evaluation:
+ * estimate it with the simulator).
+ */
+export class PrecisionError extends EdgewiseError {}
+
 /** An external solver failed or returned an answer that violates the constraints (exit 5). */
-export class SolverError extends EdgewiseError {
-}
+export class SolverError extends EdgewiseError {}
 
 /**
  * A figure came out NaN or infinite where it must be a number, or another invariant broke: a bug
@@ -127,7 +133,19 @@ export class InterruptedError extends EdgewiseError {}
 export class InfeasibleDesignError extends EdgewiseError {
 }
 
-const fmt = (x: number): string => (Number.isInteger(x) ? x.toFixed(1) : x.toPrecision(4).replace(/\.?0+$/, ''));
+/**
+ * A rate for a sentence: whole numbers below a million with one decimal ("4.0"), others with four
+ * significant digits, trailing zeros of the mantissa dropped and the exponent kept whole
+ * ("2e-10", "1.235e+300").
+ */
+export function formatRate(x: number): string {
+  if (Number.isInteger(x) && Math.abs(x) < 1e6) return x.toFixed(1);
+  if (!Number.isFinite(x)) return String(x);
+  const [mantissa, exponent] = x.toPrecision(4).split('e') as [string, string | undefined];
+  const m = mantissa.includes('.') ? mantissa.replace(/\.?0+$/, '') : mantissa;
+  return exponent === undefined ? m : `${m}e${exponent}`;
+}
+const fmt = formatRate;
 
 function list(ids: readonly string[]): string {
   if (ids.length === 0) return 'nothing';

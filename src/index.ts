@@ -4,7 +4,9 @@
 
 // scenario and model
 export * from './errors.js';
-export type { Scenario, ClassSpec, CompatibilitySpec, CandidateSpec } from './model/scenario.js';
+export type { Scenario, ClassSpec, CompatibilitySpec, CandidateSpec, RuleSpec, DemandVariantSpec, IdPair } from './model/scenario.js';
+export { scenarioFileSchema, scenarioJsonSchema } from './model/schema.js';
+export { LIMITS } from './model/limits.js';
 export { pairKey } from './model/scenario.js';
 export { parseScenario, validateScenario } from './model/validate.js';
 export { parseDesignFile, type DesignFile } from './model/design-file.js';

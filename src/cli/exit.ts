@@ -2,6 +2,7 @@ import {
   EdgewiseError,
   InfeasibleDesignError,
   InvalidTableError,
+  PrecisionError,
   InterruptedError,
   InvalidScenarioError,
   ScenarioFileError,
@@ -21,7 +22,7 @@ import type { CommandIO } from './io.js';
 export function exitCodeOf(e: unknown): number {
   if (e instanceof InvalidScenarioError || e instanceof InvalidTableError || e instanceof ScenarioFileError || e instanceof UsageError) return 2;
   if (e instanceof UnstableDesignError || e instanceof InfeasibleDesignError) return 3;
-  if (e instanceof TooLargeError) return 4;
+  if (e instanceof TooLargeError || e instanceof PrecisionError) return 4;
   if (e instanceof SolverError) return 5;
   if (e instanceof InterruptedError) return 130;
   return 1;

@@ -5,21 +5,29 @@
  */
 import { readFileSync, statSync } from 'node:fs';
 import { resolve } from 'node:path';
-import { ScenarioFileError } from '../errors.js';
+import { InvalidScenarioError, ScenarioFileError } from '../errors.js';
+import { LIMITS } from '../model/limits.js';
 import { finiteNumber } from './options.js';
 import { parseDesignFile, type DesignFile } from '../model/design-file.js';
 import { parseScenario } from '../model/validate.js';
 import type { Scenario } from '../model/scenario.js';
 import { scenarioContext, type ScenarioContext } from '../usecases/context.js';
 
-/** Reads a text file given on the command line (paths relative to cwd). */
+/**
+ * Reads a text file given on the command line (paths relative to cwd). A file past the size limit
+ * (src/model/limits.ts) is refused before it is read, so it is never loaded into memory.
+ */
 export function readInput(path: string, cwd: string, what = 'scenario file'): string {
   const full = resolve(cwd, path);
   try {
-    if (statSync(full).isDirectory()) throw new ScenarioFileError(path, 'it is a directory');
+    const st = statSync(full);
+    if (st.isDirectory()) throw new ScenarioFileError(path, 'it is a directory');
+    if (st.size > LIMITS.fileChars) {
+      throw new InvalidScenarioError([{ path: '', message: `the file has ${st.size.toLocaleString('en-US')} bytes, more than the limit of ${LIMITS.fileChars.toLocaleString('en-US')} (16 MiB)` }], path);
+    }
     return readFileSync(full, 'utf8');
   } catch (e) {
-    if (e instanceof ScenarioFileError) throw e;
+    if (e instanceof ScenarioFileError || e instanceof InvalidScenarioError) throw e;
     const code = (e as NodeJS.ErrnoException).code;
     throw new ScenarioFileError(path, code === 'ENOENT' ? `no such ${what}` : code === 'EACCES' ? 'permission denied' : (e as Error).message);
   }

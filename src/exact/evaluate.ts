@@ -1,10 +1,10 @@
-import { UnstableDesignError } from '../errors.js';
 import type { CompiledModel } from '../model/compile.js';
 import { prepareComponents } from './prepare.js';
-import { certificateOfSet, maskMembers } from './saturated.js';
+import { certificateOfSet } from './saturated.js';
 import type { ExactResult } from './result.js';
 import { buildTrie } from './trie.js';
 import { prefixSums, SaturatedSet, tailPass } from './component.js';
+import { positiveClasses, SATURATION, saturationError, scaledModel, withoutZeroRates } from './scaled.js';
 
 export interface ExactOptions {
   /** Refuse (TooLargeError) when the independent sets of all components add up to more. */
@@ -24,11 +24,32 @@ export const DEFAULT_MAX_SETS = 25_000_000;
  * independent sets: O(n·|I|) time and O(|I|) memory per connected component (components are
  * independent subsystems and are evaluated one by one).
  *
+ * Scale-free: rates are divided by a power of two near their mean first, so rates times any
+ * factor give the same backlogs, probabilities and shares, waits divided and match rates times the
+ * factor. A class of rate 0 has backlog, wait, immediate-match share and match rates 0 (no item of
+ * it ever arrives); the others are those of the design without it.
+ *
  * Throws UnstableDesignError (with a certificate found by the recursion itself) when some
- * independent set A has λ(N(A)) <= λ(A ∖ S), and TooLargeError when the count exceeds maxSets or a
- * component has more than 64 classes.
+ * independent set A has λ(N(A)) <= λ(A ∖ S) (decided exactly from the rates as decimals),
+ * PrecisionError when the design is stable but within about 1e-14 of the boundary, and
+ * TooLargeError when the count exceeds maxSets or a component has more than 64 classes.
  */
 export function evaluateExact(model: CompiledModel, options: ExactOptions = {}): ExactResult {
+  const positive = positiveClasses(model);
+  if (positive) {
+    const z = withoutZeroRates(model, positive);
+    const r = evaluateExact(z.sub, options);
+    const backlog = z.perClass(r.backlog);
+    return { ...r, backlog, wait: z.perClass(r.wait), immediateMatch: z.perClass(r.immediateMatch), matchRates: z.perEdge(r.matchRates) };
+  }
+  const { working, scale } = scaledModel(model);
+  const r = evaluateScaled(working, model, options);
+  const wait = new Float64Array(model.n);
+  for (let i = 0; i < model.n; i++) wait[i] = r.backlog[i]! / model.rates[i]!;
+  return { ...r, wait, matchRates: r.matchRates.map((x) => x * scale) };
+}
+
+function evaluateScaled(model: CompiledModel, original: CompiledModel, options: ExactOptions): Omit<ExactResult, 'wait'> {
   const maxSets = options.maxSets ?? DEFAULT_MAX_SETS;
   const { parts, total } = prepareComponents(model, maxSets);
 
@@ -37,14 +58,14 @@ export function evaluateExact(model: CompiledModel, options: ExactOptions = {}):
   const immediateMatch = new Float64Array(n);
   const matchRates = new Float64Array(model.m);
   let empty = 1;
-  const tol = 1e-12 * model.totalRate;
+  const tol = SATURATION * model.totalRate;
   for (const { members, sub, edgeMap, g, count } of parts) {
     const table = buildTrie(g, count);
     const psi = new Float64Array(count);
     try {
       prefixSums(g, table, psi, tol);
     } catch (e) {
-      if (e instanceof SaturatedSet) throw new UnstableDesignError(certificateOfSet(model, maskMembers(members, e.lo, e.hi)), options.timeUnit);
+      if (e instanceof SaturatedSet) throw saturationError(original, members, e, certificateOfSet, options.timeUnit);
       throw e;
     }
     const tail = new Float64Array(count);
@@ -62,12 +83,8 @@ export function evaluateExact(model: CompiledModel, options: ExactOptions = {}):
     }
   }
   let backlogTotal = 0;
-  const wait = new Float64Array(n);
-  for (let i = 0; i < n; i++) {
-    backlogTotal += backlog[i]!;
-    wait[i] = backlog[i]! / model.rates[i]!;
-  }
-  return { independentSets: total, emptyProbability: empty, backlogTotal, backlog, wait, immediateMatch, matchRates };
+  for (let i = 0; i < n; i++) backlogTotal += backlog[i]!;
+  return { independentSets: total, emptyProbability: empty, backlogTotal, backlog, immediateMatch, matchRates };
 }
 
 /** Total backlog only (no per-class figures): one forward pass, about a third of evaluateExact. */
@@ -79,14 +96,18 @@ export interface BacklogOnly {
 
 /**
  * Mean total backlog and P(empty) of a design under FCFM, from the prefix sums Ψ and their first
- * moment Ψ1 alone (see prefixSums). Same errors as evaluateExact.
+ * moment Ψ1 alone (see prefixSums). Same scaling, zero rates and errors as evaluateExact.
  */
 export function evaluateBacklog(model: CompiledModel, options: ExactOptions = {}): BacklogOnly {
+  const positive = positiveClasses(model);
+  if (positive) return evaluateBacklog(withoutZeroRates(model, positive).sub, options);
+  const original = model;
+  model = scaledModel(model).working;
   const maxSets = options.maxSets ?? DEFAULT_MAX_SETS;
   const { parts, total } = prepareComponents(model, maxSets);
   let backlog = 0;
   let empty = 1;
-  const tol = 1e-12 * model.totalRate;
+  const tol = SATURATION * model.totalRate;
   for (const { members, g, count } of parts) {
     const trie = buildTrie(g, count);
     const psi = new Float64Array(count);
@@ -94,7 +115,7 @@ export function evaluateBacklog(model: CompiledModel, options: ExactOptions = {}
     try {
       prefixSums(g, trie, psi, tol, psi1);
     } catch (e) {
-      if (e instanceof SaturatedSet) throw new UnstableDesignError(certificateOfSet(model, maskMembers(members, e.lo, e.hi)), options.timeUnit);
+      if (e instanceof SaturatedSet) throw saturationError(original, members, e, certificateOfSet, options.timeUnit);
       throw e;
     }
     let z = 0;

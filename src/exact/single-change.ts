@@ -1,4 +1,4 @@
-import { TooLargeError, UnstableDesignError, type InstabilityCertificate } from '../errors.js';
+import { TooLargeError, type InstabilityCertificate } from '../errors.js';
 import { compileGraph, edgePairs, findEdge, type CompiledModel } from '../model/compile.js';
 import { subModel } from '../model/components.js';
 import { prepareComponents, tooManySets } from './prepare.js';
@@ -11,6 +11,7 @@ import { setIndex, type SetIndex } from './set-index.js';
 import { buildTrie } from './trie.js';
 import { VariantScratch } from './touched-record.js';
 import { variantSums } from './variant.js';
+import { positiveClasses, SATURATION, saturationError, scaledModel } from './scaled.js';
 
 /**
  * Default memory guard of the single-change evaluator. It keeps, for every independent set, the packed
@@ -74,10 +75,25 @@ interface Part {
  * Prepares the base design once (per component: the trie of independent sets and every forward value),
  * then evaluates single changes exactly, recomputing only what they touch (src/exact/variant.ts).
  * Throws UnstableDesignError when the base is unstable and TooLargeError beyond the memory guard.
+ * Rates are divided by a power of two near their mean (scaled.ts) and waits and certificates
+ * brought back, so the figures depend on the ratios of the rates only. Every rate must be positive.
  */
 export function singleChangeEvaluator(model: CompiledModel, options: SingleChangeOptions = {}): SingleChangeEvaluator {
+  if (positiveClasses(model)) throw new RangeError('single-change evaluation needs every rate > 0 (take classes of rate 0 out first)');
+  const { working, scale } = scaledModel(model);
+  const inner = scaledEvaluator(working, model, options);
+  if (scale === 1) return inner;
+  const back = (r: ChangeResult): ChangeResult => ({
+    ...r,
+    wait: r.wait.map((w) => w / scale),
+    ...(r.certificate ? { certificate: { ...r.certificate, demand: r.certificate.demand * scale, capacity: r.certificate.capacity * scale } } : {}),
+  });
+  return { model, independentSets: inner.independentSets, base: back(inner.base), toggle: (a, b) => back(inner.toggle(a, b)) };
+}
+
+function scaledEvaluator(model: CompiledModel, original: CompiledModel, options: SingleChangeOptions): SingleChangeEvaluator {
   const maxSets = options.maxSets ?? DEFAULT_CHANGE_MAX_SETS;
-  const tol = 1e-12 * model.totalRate;
+  const tol = SATURATION * model.totalRate;
   const parts: Part[] = [];
   const { parts: prepared, total, of: compOf } = prepareComponents(model, maxSets, GUARD);
   for (const { members, sub, g, count } of prepared) {
@@ -87,7 +103,7 @@ export function singleChangeEvaluator(model: CompiledModel, options: SingleChang
     try {
       sums = forwardSums(g, index, tol);
     } catch (e) {
-      if (e instanceof SaturatedSet) throw new UnstableDesignError(certificateOfSet(model, maskMembers(members, e.lo, e.hi)), options.timeUnit);
+      if (e instanceof SaturatedSet) throw saturationError(original, members, e, certificateOfSet, options.timeUnit);
       throw e;
     }
     parts.push({ members, sub, g, index, sums, scratch: new VariantScratch() });

@@ -1,5 +1,5 @@
-/** "Did you mean" for a misspelt name: the closest known name by edit distance (leven), if close enough. */
-import leven from 'leven';
+/** "Did you mean" for a misspelt name: the closest known name by edit distance (fastest-levenshtein), if close enough. */
+import { distance as leven } from 'fastest-levenshtein';
 
 /** Normalised form used to compare names: lower case, without spaces, '_' and '-'. */
 export function normaliseName(name: string): string {

@@ -68,8 +68,19 @@ export function compileGraph(ids: readonly string[], rates: ArrayLike<number>, p
     adj[fill[b]!] = a;
     adjEdge[fill[b]!++] = e;
   }
-  // sort each neighbour list ascending (insertion sort: lists are short)
+  // sort each neighbour list ascending: insertion sort for short lists, a comparison sort for long
+  // ones (a hub with thousands of neighbours would make insertion sort quadratic)
   for (let k = 0; k < n; k++) {
+    const from = adjStart[k]!;
+    const to = adjStart[k + 1]!;
+    if (to - from > 32) {
+      const order = Array.from({ length: to - from }, (_, i) => from + i).sort((x, y) => adj[x]! - adj[y]!);
+      const a = order.map((q) => adj[q]!);
+      const ae = order.map((q) => adjEdge[q]!);
+      adj.set(a, from);
+      adjEdge.set(ae, from);
+      continue;
+    }
     for (let p = adjStart[k]! + 1; p < adjStart[k + 1]!; p++) {
       const v = adj[p]!;
       const ev = adjEdge[p]!;

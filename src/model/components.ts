@@ -39,11 +39,13 @@ export function components(model: CompiledModel): Components {
 
 /**
  * Two-colouring of one component, or undefined when it has an odd cycle or a self-loop
- * (only bipartite components can be coloured).
+ * (only bipartite components can be coloured). `side` may be a reused n-array (time then stays in
+ * the size of the component); only the entries of `members` are meaningful afterwards.
  */
-export function bipartition(model: CompiledModel, members: ArrayLike<number>): { side: Int8Array } | undefined {
-  const { n, adjStart, adj, selfLoop } = model;
-  const side = new Int8Array(n).fill(-1);
+export function bipartition(model: CompiledModel, members: ArrayLike<number>, side: Int8Array = new Int8Array(model.n)): { side: Int8Array } | undefined {
+  const { adjStart, adj, selfLoop } = model;
+  // members is a whole component: the search below reads and writes the sides of members only
+  for (let i = 0; i < members.length; i++) side[members[i]!] = -1;
   for (let i = 0; i < members.length; i++) if (selfLoop[members[i]!]) return undefined;
   const queue: number[] = [];
   for (let i = 0; i < members.length; i++) {

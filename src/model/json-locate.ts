@@ -1,6 +1,8 @@
 /**
  * Finds where a JSON text first goes wrong, as line and column (1-based). Node's JSON.parse does not
- * always say where; this small scanner follows RFC 8259 and stops at the first error.
+ * always say where; this small scanner follows RFC 8259 and stops at the first error. It does not
+ * recurse (a general-purpose parser such as jsonc-parser does, and overflows the stack on deeply
+ * nested input), and it runs only on text that JSON.parse refused.
  */
 export interface JsonSyntaxProblem {
   readonly line: number;
@@ -68,63 +70,70 @@ export function locateJsonError(text: string): JsonSyntaxProblem | undefined {
       if (text[i] !== word[k]) fail(i >= n ? `unexpected end of input in '${word}'` : `invalid literal, expected '${word}' but found '${text[i]}'`);
     }
   };
-  const value = (): void => {
+  // The structure is followed with an explicit stack of open containers (no recursion), so a
+  // document nested 100 000 levels deep is located like any other.
+  const stack: number[] = []; // OBJECT or ARRAY per open container
+  const OBJECT = 1;
+  const ARRAY = 2;
+  const key = (): void => {
     ws();
-    if (i >= n) fail('unexpected end of input, expected a value');
-    const c = text[i];
-    if (c === '{') {
-      i++;
+    if (text[i] !== '"') fail(i >= n ? 'unexpected end of input in object' : `expected a quoted key but found '${text[i]}'`);
+    str();
+    ws();
+    expect(':');
+  };
+  const document = (): void => {
+    let wantValue = true;
+    for (;;) {
+      if (wantValue) {
+        ws();
+        if (i >= n) fail('unexpected end of input, expected a value');
+        const c = text[i];
+        if (c === '{') {
+          i++;
+          ws();
+          if (text[i] === '}') i++;
+          else {
+            stack.push(OBJECT);
+            key();
+            continue;
+          }
+        } else if (c === '[') {
+          i++;
+          ws();
+          if (text[i] === ']') i++;
+          else {
+            stack.push(ARRAY);
+            continue;
+          }
+        } else if (c === '"') str();
+        else if (c === 't') literal('true');
+        else if (c === 'f') literal('false');
+        else if (c === 'n') literal('null');
+        else num();
+        wantValue = false;
+      }
+      // after a value: close containers or move to the next entry
+      if (stack.length === 0) return;
       ws();
-      if (text[i] === '}') {
+      const top = stack[stack.length - 1];
+      if (text[i] === ',') {
         i++;
-        return;
+        if (top === OBJECT) key();
+        wantValue = true;
+        continue;
       }
-      while (true) {
-        ws();
-        if (text[i] !== '"') fail(i >= n ? 'unexpected end of input in object' : `expected a quoted key but found '${text[i]}'`);
-        str();
-        ws();
-        expect(':');
-        value();
-        ws();
-        if (text[i] === ',') {
-          i++;
-          continue;
-        }
-        if (text[i] === '}') {
-          i++;
-          return;
-        }
-        fail(i >= n ? 'unexpected end of input in object' : `expected ',' or '}' but found '${text[i]}'`);
-      }
-    } else if (c === '[') {
-      i++;
-      ws();
-      if (text[i] === ']') {
+      if (text[i] === (top === OBJECT ? '}' : ']')) {
         i++;
-        return;
+        stack.pop();
+        continue;
       }
-      while (true) {
-        value();
-        ws();
-        if (text[i] === ',') {
-          i++;
-          continue;
-        }
-        if (text[i] === ']') {
-          i++;
-          return;
-        }
-        fail(i >= n ? 'unexpected end of input in array' : `expected ',' or ']' but found '${text[i]}'`);
-      }
-    } else if (c === '"') str();
-    else if (c === 't') literal('true');
-    else if (c === 'f') literal('false');
-    else if (c === 'n') literal('null');
-    else num();
+      if (top === OBJECT) fail(i >= n ? 'unexpected end of input in object' : `expected ',' or '}' but found '${text[i]}'`);
+      fail(i >= n ? 'unexpected end of input in array' : `expected ',' or ']' but found '${text[i]}'`);
+    }
   };
   try {
-    value();
+    document();
     ws();
     if (i < n) fail(`unexpected '${text[i]}' after the end of the document`);
     return undefined;

@@ -1,19 +1,30 @@
+/**
+ * Reading a scenario: the whole file is validated once, up front, the same way for every command.
+ * Size limits first (limits.ts: refused at once, naming the limit), then the field rules of the one
+ * schema (schema.ts) and the cross-field rules (cross-checks.ts), every problem listed at once with
+ * its JSON path, in document order. Malformed JSON gives line and column (json-locate.ts).
+ */
 import { InvalidScenarioError, type ScenarioProblem } from '../errors.js';
+import { crossChecks } from './cross-checks.js';
 import { locateJsonError } from './json-locate.js';
-import { pairKey, type CandidateSpec, type ClassSpec, type CompatibilitySpec, type Scenario } from './scenario.js';
-
-const KNOWN_TOP = new Set(['name', 'timeUnit', 'classes', 'compatibilities', 'candidates', 'budget']);
+import { ARRAY_LIMITS, LIMITS } from './limits.js';
+import { formatPath, preview, type PathStep } from './preview.js';
+import type { CompatibilitySpec, DemandVariantSpec, RuleSpec, Scenario } from './scenario.js';
+import { scenarioFileSchema } from './schema.js';
+import { issueProblems, type RawProblem } from './schema-messages.js';
 
 const isObj = (v: unknown): v is Record<string, unknown> => typeof v === 'object' && v !== null && !Array.isArray(v);
-const show = (v: unknown): string => (v === undefined ? 'missing' : JSON.stringify(v) ?? String(v));
 
 /**
  * Parses and validates the text of a scenario file. Reports every problem at once by throwing
  * InvalidScenarioError (malformed JSON gives line and column).
  */
 export function parseScenario(text: string, source?: string): Scenario {
-  let doc: unknown;
   if (text.charCodeAt(0) === 0xfeff) text = text.slice(1); // byte-order mark left by some editors
+  if (text.length > LIMITS.fileChars) {
+    throw new InvalidScenarioError([{ path: '', message: `the file has ${text.length.toLocaleString('en-US')} characters, more than the limit of ${LIMITS.fileChars.toLocaleString('en-US')} (16 MiB)` }], source);
+  }
+  let doc: unknown;
   try {
     doc = JSON.parse(text);
   } catch (e) {
@@ -26,172 +37,126 @@ export function parseScenario(text: string, source?: string): Scenario {
   return validateScenario(doc, source);
 }
 
+/**
+ * The first place where the document is nested deeper than LIMITS.depth or holds more than
+ * LIMITS.values values (an explicit stack: no recursion), or undefined.
+ */
+function depthProblem(doc: unknown): ScenarioProblem | undefined {
+  const stack: Array<{ v: unknown; depth: number; path: readonly PathStep[] | undefined }> = [{ v: doc, depth: 1, path: [] }];
+  let values = 0;
+  while (stack.length > 0) {
+    const { v, depth, path } = stack.pop()!;
+    if (++values > LIMITS.values) return { path: '', message: `more than ${LIMITS.values.toLocaleString('en-US')} values in the document: over the limit` };
+    if (typeof v !== 'object' || v === null) continue;
+    if (depth > LIMITS.depth) {
+      return { path: path ? formatPath(path) : '', message: `nested deeper than the limit of ${LIMITS.depth} levels of arrays and objects` };
+    }
+    // paths are kept for the first few levels only (enough to point at the place)
+    const keep = depth < 8 && path !== undefined;
+    if (Array.isArray(v)) for (let i = v.length - 1; i >= 0; i--) stack.push({ v: v[i], depth: depth + 1, path: keep ? [...path, i] : path });
+    else for (const k in v) if (Object.prototype.hasOwnProperty.call(v, k)) stack.push({ v: (v as Record<string, unknown>)[k], depth: depth + 1, path: keep ? [...path, k] : path });
+  }
+  return undefined;
+}
+
+/** Problems of the size limits on entry counts (checked before anything else reads the entries). */
+function sizeProblems(doc: Record<string, unknown>): ScenarioProblem[] {
+  const out: ScenarioProblem[] = [];
+  for (const [field, limit] of ARRAY_LIMITS) {
+    const v = doc[field];
+    if (Array.isArray(v) && v.length > limit) {
+      out.push({ path: field, message: `${v.length.toLocaleString('en-US')} entries: more than the limit of ${limit.toLocaleString('en-US')} ${field}` });
+    }
+  }
+  const demand = doc.demand;
+  if (isObj(demand)) {
+    let count = 0;
+    for (const k in demand) if (Object.prototype.hasOwnProperty.call(demand, k) && ++count > LIMITS.demandVariants) break;
+    if (count > LIMITS.demandVariants) out.push({ path: 'demand', message: `more than the limit of ${LIMITS.demandVariants} demand variants` });
+  }
+  return out;
+}
+
+/** Sorts problems in document order: keys in the order written, entries by index, then as found. */
+function inDocumentOrder(doc: unknown, problems: RawProblem[]): RawProblem[] {
+  const keyIndex = new WeakMap<object, Map<string, number>>();
+  const orderOf = (path: readonly PathStep[]): number[] => {
+    const out: number[] = [];
+    let v: unknown = doc;
+    for (const step of path) {
+      if (typeof v !== 'object' || v === null) break;
+      if (typeof step === 'number') out.push(step);
+      else {
+        let m = keyIndex.get(v);
+        if (!m) {
+          m = new Map(Object.keys(v).map((k, i) => [k, i] as const));
+          keyIndex.set(v, m);
+        }
+        out.push(m.get(step) ?? Number.MAX_SAFE_INTEGER);
+      }
+      v = Object.prototype.hasOwnProperty.call(v, step) ? (v as Record<string | number, unknown>)[step] : undefined;
+    }
+    return out;
+  };
+  const keyed = problems.map((p, i) => ({ p, i, order: orderOf(p.path) }));
+  keyed.sort((a, b) => {
+    const n = Math.min(a.order.length, b.order.length);
+    for (let k = 0; k < n; k++) if (a.order[k] !== b.order[k]) return a.order[k]! - b.order[k]!;
+    return a.i - b.i;
+  });
+  return keyed.map((k) => k.p);
+}
+
 /** Validates an already-parsed scenario object; throws InvalidScenarioError listing every problem. */
 export function validateScenario(doc: unknown, source?: string): Scenario {
-  const problems: ScenarioProblem[] = [];
-  const bad = (path: string, message: string): void => {
-    problems.push({ path, message });
-  };
   if (!isObj(doc)) {
-    throw new InvalidScenarioError([{ path: '', message: `a scenario must be a JSON object, found ${Array.isArray(doc) ? 'an array' : show(doc)}` }], source);
+    throw new InvalidScenarioError([{ path: '', message: `a scenario must be a JSON object, found ${Array.isArray(doc) ? 'an array' : preview(doc)}` }], source);
   }
+  // entry counts past a limit are refused at once (that is what keeps huge files fast); a value
+  // nested too deep is one more problem (nothing below walks a value recursively)
+  const sizes = sizeProblems(doc);
+  if (sizes.length > 0) throw new InvalidScenarioError(sizes, source);
+  const deep = depthProblem(doc);
 
-  const name = doc.name === undefined ? 'unnamed scenario' : doc.name;
-  if (typeof name !== 'string') bad('name', `must be a string, found ${show(doc.name)}`);
-  const timeUnit = doc.timeUnit === undefined ? 'time unit' : doc.timeUnit;
-  if (typeof timeUnit !== 'string' || timeUnit.trim() === '') bad('timeUnit', `must be a non-empty string such as "hour", found ${show(doc.timeUnit)}`);
-
-  // ---- classes
-  const classes: ClassSpec[] = [];
-  const ids = new Set<string>();
-  if (doc.classes === undefined) bad('classes', 'missing: list the item classes, e.g. [{"id": "north", "rate": 12.5}]');
-  else if (!Array.isArray(doc.classes)) bad('classes', `must be an array, found ${show(doc.classes)}`);
-  else {
-    if (doc.classes.length === 0) bad('classes', 'empty model: at least one class is needed');
-    doc.classes.forEach((c: unknown, i: number) => {
-      const p = `classes[${i}]`;
-      if (!isObj(c)) {
-        bad(p, `must be an object like {"id": "north", "rate": 12.5}, found ${show(c)}`);
-        return;
-      }
-      let ok = true;
-      if (c.id === undefined) {
-        bad(`${p}.id`, 'missing class id');
-        ok = false;
-      } else if (typeof c.id !== 'string' || c.id.trim() === '') {
-        bad(`${p}.id`, `must be a non-empty string, found ${show(c.id)}`);
-        ok = false;
-      } else if (ids.has(c.id)) {
-        bad(`${p}.id`, `duplicate class id "${c.id}"`);
-        ok = false;
-      }
-      if (c.rate === undefined) {
-        bad(`${p}.rate`, `rate missing for class ${show(c.id)}`);
-        ok = false;
-      } else if (typeof c.rate !== 'number' || !Number.isFinite(c.rate)) {
-        bad(`${p}.rate`, `rate must be a finite number, found ${show(c.rate)}`);
-        ok = false;
-      } else if (c.rate <= 0) {
-        bad(`${p}.rate`, `rate must be > 0, found ${c.rate}${c.rate === 0 ? ' (drop the class instead)' : ''}`);
-        ok = false;
-      }
-      if (c.label !== undefined && typeof c.label !== 'string') bad(`${p}.label`, `must be a string, found ${show(c.label)}`);
-      if (c.patience !== undefined && (typeof c.patience !== 'number' || !Number.isFinite(c.patience) || c.patience <= 0)) {
-        bad(`${p}.patience`, `mean patience must be a finite number > 0, found ${show(c.patience)}`);
-        ok = false;
-      }
-      if (typeof c.id === 'string' && c.id.trim() !== '') ids.add(c.id);
-      if (ok) classes.push({ ...c, id: c.id as string, rate: c.rate as number } as ClassSpec);
-    });
-  }
-
-  // ---- pairs (shared by compatibilities and candidates)
-  const seen = new Map<string, string>();
-  const readPair = (v: unknown, path: string): [string, string] | undefined => {
-    if (!Array.isArray(v) || v.length !== 2 || typeof v[0] !== 'string' || typeof v[1] !== 'string') {
-      bad(path, `a pair must be two class ids like ["north", "centre"], found ${show(v)}`);
-      return undefined;
+  const parsed = scenarioFileSchema.safeParse(doc);
+  const raw: RawProblem[] = parsed.success ? [] : parsed.error.issues.flatMap((issue) => issueProblems(issue, doc));
+  raw.push(...crossChecks(doc));
+  if (raw.length > 0 || !parsed.success || deep) {
+    const seen = new Set<string>();
+    const problems: ScenarioProblem[] = deep ? [deep] : [];
+    for (const p of inDocumentOrder(doc, raw)) {
+      const path = formatPath(p.path);
+      const key = `${path}\u0000${p.message}`;
+      if (seen.has(key)) continue;
+      seen.add(key);
+      problems.push({ path, message: p.message });
     }
-    let ok = true;
-    for (const id of new Set(v as string[])) {
-      if (!ids.has(id)) {
-        bad(path, `unknown class "${id}"${ids.size > 0 ? ` (known: ${[...ids].slice(0, 8).join(', ')}${ids.size > 8 ? ', …' : ''})` : ''}`);
-        ok = false;
-      }
-    }
-    return ok ? [v[0], v[1]] : undefined;
-  };
-  const nonNegative = (v: unknown, path: string, what: string): number | undefined => {
-    if (v === undefined) return 0;
-    if (typeof v !== 'number' || !Number.isFinite(v)) {
-      bad(path, `${what} must be a finite number, found ${show(v)}`);
-      return undefined;
-    }
-    if (v < 0) {
-      bad(path, `${what} must be >= 0, found ${v}`);
-      return undefined;
-    }
-    return v;
-  };
-
-  const compatibilities: CompatibilitySpec[] = [];
-  if (doc.compatibilities !== undefined && !Array.isArray(doc.compatibilities)) {
-    bad('compatibilities', `must be an array of pairs, found ${show(doc.compatibilities)}`);
-  } else {
-    ((doc.compatibilities as unknown[] | undefined) ?? []).forEach((c, i) => {
-      const p = `compatibilities[${i}]`;
-      let pair: [string, string] | undefined;
-      let removable = false;
-      let saving: number | undefined = 0;
-      let rest: Record<string, unknown> = {};
-      if (Array.isArray(c)) pair = readPair(c, p);
-      else if (isObj(c)) {
-        pair = readPair(c.pair, `${p}.pair`);
-        if (c.removable !== undefined && typeof c.removable !== 'boolean') bad(`${p}.removable`, `must be true or false, found ${show(c.removable)}`);
-        removable = c.removable === true;
-        saving = nonNegative(c.saving, `${p}.saving`, 'saving');
-        rest = c;
-      } else {
-        bad(p, `must be a pair ["a", "b"] or an object {"pair": ["a", "b"], "removable": true, "saving": 5}, found ${show(c)}`);
-        return;
-      }
-      if (!pair) return;
-      const key = pairKey(pair[0], pair[1]);
-      const prev = seen.get(key);
-      if (prev !== undefined) {
-        bad(p, `duplicate pair ${show(pair)}: already given at ${prev}`);
-        return;
-      }
-      seen.set(key, p);
-      if (saving === undefined) return;
-      compatibilities.push({ ...rest, pair, removable, saving });
-    });
+    throw new InvalidScenarioError(problems, source);
   }
-
-  const candidates: CandidateSpec[] = [];
-  if (doc.candidates !== undefined && !Array.isArray(doc.candidates)) {
-    bad('candidates', `must be an array of {"pair": [...], "cost": ...}, found ${show(doc.candidates)}`);
-  } else {
-    ((doc.candidates as unknown[] | undefined) ?? []).forEach((c, i) => {
-      const p = `candidates[${i}]`;
-      if (!isObj(c)) {
-        bad(p, `must be an object {"pair": ["a", "b"], "cost": 40}, found ${show(c)}`);
-        return;
-      }
-      const pair = readPair(c.pair, `${p}.pair`);
-      if (c.cost === undefined) bad(`${p}.cost`, 'cost missing');
-      const cost = c.cost === undefined ? undefined : nonNegative(c.cost, `${p}.cost`, 'cost');
-      if (!pair) return;
-      const key = pairKey(pair[0], pair[1]);
-      const prev = seen.get(key);
-      if (prev !== undefined) {
-        bad(p, prev.startsWith('compatibilities')
-          ? `candidate ${show(pair)} is already a compatibility (${prev})`
-          : `duplicate pair ${show(pair)}: already given at ${prev}`);
-        return;
-      }
-      seen.set(key, p);
-      if (cost === undefined) return;
-      candidates.push({ ...c, pair, cost });
-    });
-  }
-
-  let budget: number | undefined;
-  if (doc.budget !== undefined) {
-    if (typeof doc.budget !== 'number' || !Number.isFinite(doc.budget) || doc.budget < 0) bad('budget', `must be a finite number >= 0, found ${show(doc.budget)}`);
-    else budget = doc.budget;
-  }
-
-  if (problems.length > 0) throw new InvalidScenarioError(problems, source);
-  // fromEntries defines own properties, so even a "__proto__" key is kept as data
-  const extra: Record<string, unknown> = Object.fromEntries(Object.entries(doc).filter(([k]) => !KNOWN_TOP.has(k)));
+  const file = parsed.data;
+  const compatibilities: CompatibilitySpec[] = (file.compatibilities ?? []).map((c) =>
+    Array.isArray(c) ? { pair: [c[0], c[1]], removable: false, saving: 0 } : { ...c, removable: c.removable ?? false, saving: c.saving ?? 0 },
+  );
+  const rule = (r: NonNullable<typeof file.mustKeep>[number]): RuleSpec => (Array.isArray(r) ? { pair: [r[0], r[1]] } : r);
+  // demand comes from the raw document, so that a class id such as "__proto__" is kept
+  const rawDemand = isObj(doc.demand) ? doc.demand : {};
+  const demand: DemandVariantSpec[] = Object.keys(rawDemand).map((name) => ({
+    name,
+    rates: Object.fromEntries(Object.entries(rawDemand[name] as Record<string, number>)),
+  }));
+  const { $schema: _ignored, name, timeUnit, classes, compatibilities: _c, candidates, mustKeep, forbidden, demand: _d, ...rest } = file;
+  void _ignored;
+  void _c;
+  void _d;
   return {
-    name: name as string,
-    timeUnit: timeUnit as string,
+    ...rest,
+    name: name ?? 'unnamed scenario',
+    timeUnit: timeUnit ?? 'time unit',
     classes,
     compatibilities,
-    candidates,
-    ...(budget === undefined ? {} : { budget }),
-    extra,
+    candidates: candidates ?? [],
+    mustKeep: (mustKeep ?? []).map(rule),
+    forbidden: (forbidden ?? []).map(rule),
+    demand,
   };
 }

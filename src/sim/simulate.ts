@@ -5,7 +5,8 @@ import { isPolicyName, POLICIES } from './policy.js';
 import type { ReplicationPlan } from './record.js';
 import { plannedArrivals, runReplications } from './runner.js';
 import { buildSimModel } from './sim-model.js';
-import { ReplicationPool, type ReplicationSummary } from './summary.js';
+import { ReplicationPool, scaledSummary, type ReplicationSummary } from './summary.js';
+import { scaledModel } from '../model/rate-scale.js';
 
 export const SIM_DEFAULTS = {
   arrivals: 2_000_000,
@@ -104,8 +105,12 @@ export function resolveSimulation(model: CompiledModel, options: SimulationOptio
  *
  * Throws UsageError for bad options and TooLargeError when a queue outgrows `maxWaiting`.
  */
-export async function simulate(model: CompiledModel, options: SimulationOptions = {}): Promise<SimulationResult> {
-  const { policy, sim, plan, replications, seed, jobs, patience } = resolveSimulation(model, options);
+export async function simulate(original: CompiledModel, options: SimulationOptions = {}): Promise<SimulationResult> {
+  // rates divided by a power of two near their mean: time runs `scale` times slower in the
+  // simulation, so patience is multiplied and times divided / rates multiplied on the way back
+  const { working: model, scale } = scaledModel(original);
+  const scaledOptions = scale === 1 || !options.patience ? options : { ...options, patience: Array.from(options.patience, (p) => p * scale) };
+  const { policy, sim, plan, replications, seed, jobs, patience } = resolveSimulation(model, scaledOptions);
   const pool = new ReplicationPool(model.n, model.m, model.totalRate, replications);
   const total = plannedArrivals(plan, replications);
   let simulated = 0;
@@ -132,7 +137,7 @@ export async function simulate(model: CompiledModel, options: SimulationOptions 
   );
   if (done === 0) throw new InterruptedError('interrupted before any replication finished');
   return {
-    ...pool.summary(done < replications),
+    ...scaledSummary(pool.summary(done < replications), scale),
     partial: done < replications,
     planned: replications,
     policy,
@@ -141,6 +146,6 @@ export async function simulate(model: CompiledModel, options: SimulationOptions 
     seed,
     maxWaiting: plan.maxWaiting,
     engine: plan.timed || sim.impatient ? 'timed' : 'arrival-chain',
-    patience,
+    patience: scale === 1 ? patience : patience.map((p) => p / scale),
   };
 }

@@ -131,3 +131,30 @@ export class ReplicationPool {
     };
   }
 }
+
+/**
+ * A summary simulated on rates divided by `scale` (time running `scale` times slower), brought back
+ * to the original time unit: waits and durations divided, rates multiplied; backlogs and shares
+ * unchanged.
+ */
+export function scaledSummary(s: ReplicationSummary, scale: number): ReplicationSummary {
+  if (scale === 1) return s;
+  const ci = (c: readonly [number, number] | null, f: number): readonly [number, number] | null => (c ? [c[0] * f, c[1] * f] : null);
+  const est = (e: Estimate, f: number): Estimate => ({ ...e, mean: e.mean * f, ci95: ci(e.ci95, f) });
+  const wait = (w: WaitEstimate): WaitEstimate => ({
+    ...w,
+    ...est(w, 1 / scale),
+    p50: w.p50 / scale,
+    p90: w.p90 / scale,
+    p99: w.p99 / scale,
+    quantileCi95: w.quantileCi95.map((c) => ci(c, 1 / scale)),
+  });
+  const rate = (p: PerClass<Estimate>): PerClass<Estimate> => ({ total: est(p.total, scale), byClass: p.byClass.map((e) => est(e, scale)) });
+  return {
+    ...s,
+    wait: { total: wait(s.wait.total), byClass: s.wait.byClass.map(wait) },
+    matchRates: s.matchRates.map((e) => est(e, scale)),
+    abandonRate: rate(s.abandonRate),
+    duration: est(s.duration, 1 / scale),
+  };
+}

@@ -20,6 +20,7 @@
  */
 import type { CompiledModel } from '../model/compile.js';
 import { FlowNetwork } from './maxflow.js';
+import { scratchOf } from './scratch.js';
 
 export class DoubleCover {
   private readonly net: FlowNetwork;
@@ -36,7 +37,7 @@ export class DoubleCover {
   constructor(model: CompiledModel, members: ArrayLike<number>) {
     const nC = members.length;
     this.members = Int32Array.from(members);
-    const local = new Int32Array(model.n).fill(-1);
+    const local = scratchOf(model).local;
     for (let i = 0; i < nC; i++) local[members[i]!] = i;
     let total = 0;
     let arcs = 2 * nC;
@@ -47,7 +48,8 @@ export class DoubleCover {
     }
     this.demand = total;
     this.big = 4 * total + 1;
-    const net = new FlowNetwork(2 + 2 * nC, arcs, 1e-13 * total);
+    // residuals below 2^-50 of the component's rate are rounding noise (sets at relative slack 1e-12 stay visible)
+    const net = new FlowNetwork(2 + 2 * nC, arcs, 2 ** -50 * total);
     this.sourceArc = new Int32Array(nC);
     this.sinkArc = new Int32Array(nC);
     for (let i = 0; i < nC; i++) {
@@ -57,6 +59,7 @@ export class DoubleCover {
       if (model.selfLoop[k]) net.addArc(2 + i, 2 + nC + i, Infinity);
       for (let p = model.adjStart[k]!; p < model.adjStart[k + 1]!; p++) net.addArc(2 + i, 2 + nC + local[model.adj[p]!]!, Infinity);
     }
+    for (let i = 0; i < nC; i++) local[members[i]!] = -1;
     this.maxFlow = net.augment(0, 1);
     this.base = net.snapshot();
     this.net = net;

@@ -5,19 +5,25 @@
  */
 import type { CompiledModel } from '../model/compile.js';
 import type { LinearProgram, LpConstraint, LpSolution, LpVariable } from '../solvers/lp.js';
+import { scratchOf } from './scratch.js';
 
-/** Edges with an endpoint in `members` (a component: both endpoints), ascending. */
+/**
+ * Edges of a component (`members` is a whole connected component), ascending; time in the
+ * members' degrees.
+ */
 export function componentEdges(model: CompiledModel, members: ArrayLike<number>): Int32Array {
-  const inC = new Uint8Array(model.n);
-  for (let i = 0; i < members.length; i++) inC[members[i]!] = 1;
   const out: number[] = [];
-  for (let e = 0; e < model.m; e++) if (inC[model.edgeA[e]!]) out.push(e);
-  return Int32Array.from(out);
+  for (let i = 0; i < members.length; i++) {
+    const k = members[i]!;
+    if (model.selfEdge[k]! >= 0) out.push(model.selfEdge[k]!);
+    for (let p = model.adjStart[k]!; p < model.adjStart[k + 1]!; p++) if (model.adj[p]! > k) out.push(model.adjEdge[p]!);
+  }
+  return Int32Array.from(out).sort();
 }
 
 /** Rows Σ_{e∋k} a_{k,e} x_{col(e)} for each member k, as sparse (variables, coefficients). */
 export function incidenceRows(model: CompiledModel, members: ArrayLike<number>, edges: Int32Array): Array<{ variables: number[]; coefficients: number[] }> {
-  const local = new Int32Array(model.n).fill(-1);
+  const local = scratchOf(model).local;
   for (let i = 0; i < members.length; i++) local[members[i]!] = i;
   const rows = Array.from({ length: members.length }, () => ({ variables: [] as number[], coefficients: [] as number[] }));
   edges.forEach((e, col) => {
@@ -33,6 +39,7 @@ export function incidenceRows(model: CompiledModel, members: ArrayLike<number>, 
       }
     }
   });
+  for (let i = 0; i < members.length; i++) local[members[i]!] = -1;
   return rows;
 }
 

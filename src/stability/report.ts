@@ -33,15 +33,19 @@ export interface ComponentStability {
 
 export interface StabilityReport {
   readonly stable: boolean;
-  /** Connected components in order of their smallest class index. */
+  /** Connected components (of the classes with a positive rate) in order of their smallest class index. */
   readonly components: readonly ComponentStability[];
   /** Certificate of the first unstable component. */
   readonly certificate?: IndexCertificate;
-  /** When stable: a strictly positive edge flow μ with Σ_{e∋k} a_{k,e} μ_e = λ_k (per edge index). */
+  /**
+   * When stable: an edge flow μ with Σ_{e∋k} a_{k,e} μ_e = λ_k (per edge index), strictly positive
+   * on the edges between classes of positive rate (0 on the edges of a class of rate 0).
+   */
   readonly flow?: Float64Array;
   /**
    * Per class: how far λ_k may grow, the other rates fixed, before the design turns unstable;
-   * Infinity for a self-looped class; NaN for the classes of an unstable component.
+   * Infinity for a self-looped class; NaN for the classes of an unstable component (and, in an
+   * unstable design, for classes of rate 0).
    */
   readonly headroom: Float64Array;
   /**
@@ -51,4 +55,9 @@ export interface StabilityReport {
   readonly tightSets: readonly TightSet[];
   /** When stable: the first tight set, i.e. the smallest slack over all independent sets. */
   readonly bottleneck?: TightSet;
+  /**
+   * When stable with a bottleneck: its slack relative to its capacity, (λ(N(I)) − λ(I)) / λ(N(I)). Exact figures lose about 1e-16 / relativeSlack of their relative
+   * precision near the boundary (see backlogDigits in precision.ts and docs).
+   */
+  readonly relativeSlack?: number;
 }

@@ -3,18 +3,28 @@
  * demand λ(I), capacity λ(N(I)) and slack λ(N(I)) − λ(I).
  */
 import type { CompiledModel } from '../model/compile.js';
+import { scratchOf } from './scratch.js';
 
-/** N(set), ascending: every neighbour of a member, the member itself when it has a self-loop. */
+/**
+ * N(set), ascending: every neighbour of a member, the member itself when it has a self-loop.
+ * Time in the degrees of the members (not in the number of classes).
+ */
 export function neighbourhood(model: CompiledModel, set: ArrayLike<number>): Int32Array {
-  const mark = new Uint8Array(model.n);
+  const mark = scratchOf(model).markA;
+  const out: number[] = [];
+  const add = (k: number): void => {
+    if (!mark[k]) {
+      mark[k] = 1;
+      out.push(k);
+    }
+  };
   for (let i = 0; i < set.length; i++) {
     const k = set[i]!;
-    if (model.selfLoop[k]) mark[k] = 1;
-    for (let p = model.adjStart[k]!; p < model.adjStart[k + 1]!; p++) mark[model.adj[p]!] = 1;
+    if (model.selfLoop[k]) add(k);
+    for (let p = model.adjStart[k]!; p < model.adjStart[k + 1]!; p++) add(model.adj[p]!);
   }
-  const out: number[] = [];
-  for (let k = 0; k < model.n; k++) if (mark[k]) out.push(k);
-  return Int32Array.from(out);
+  for (const k of out) mark[k] = 0;
+  return Int32Array.from(out).sort();
 }
 
 /** λ(set). */
@@ -26,14 +36,16 @@ export function rateOf(model: CompiledModel, set: ArrayLike<number>): number {
 
 /** True when no two members are compatible and no member has a self-loop. */
 export function isIndependentLoopFree(model: CompiledModel, set: ArrayLike<number>): boolean {
-  const mark = new Uint8Array(model.n);
+  const mark = scratchOf(model).markA;
   for (let i = 0; i < set.length; i++) mark[set[i]!] = 1;
-  for (let i = 0; i < set.length; i++) {
+  let ok = true;
+  for (let i = 0; i < set.length && ok; i++) {
     const k = set[i]!;
-    if (model.selfLoop[k]) return false;
-    for (let p = model.adjStart[k]!; p < model.adjStart[k + 1]!; p++) if (mark[model.adj[p]!]) return false;
+    if (model.selfLoop[k]) ok = false;
+    for (let p = model.adjStart[k]!; p < model.adjStart[k + 1]! && ok; p++) if (mark[model.adj[p]!]) ok = false;
   }
-  return true;
+  for (let i = 0; i < set.length; i++) mark[set[i]!] = 0;
+  return ok;
 }
 
 /** An independent set with its neighbourhood, demand λ(I), capacity λ(N(I)) and slack. */
@@ -56,12 +68,11 @@ export function measure(model: CompiledModel, set: ArrayLike<number>): SetMeasur
 
 /** A \ N(A): independent and self-loop free whenever A is any set (see double-cover.ts). */
 export function stripNeighbours(model: CompiledModel, a: ArrayLike<number>): Int32Array {
-  const inA = new Uint8Array(model.n);
-  for (let i = 0; i < a.length; i++) inA[a[i]!] = 1;
   const nb = neighbourhood(model, a);
-  const inN = new Uint8Array(model.n);
+  const inN = scratchOf(model).markB;
   for (let i = 0; i < nb.length; i++) inN[nb[i]!] = 1;
   const out: number[] = [];
   for (let i = 0; i < a.length; i++) if (!inN[a[i]!]) out.push(a[i]!);
+  for (let i = 0; i < nb.length; i++) inN[nb[i]!] = 0;
   return Int32Array.from(out).sort();
 }

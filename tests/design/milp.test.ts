@@ -164,5 +164,22 @@ describe('MILP stage (HiGHS) against brute force', () => {
     expect(cheapest!.verifiedMinFlow).toBeCloseTo(0.5, 9);
     // with a budget of 2 no stable design exists (the triangle costs 3)
     expect(await maxMinFlowDesign(p, 2)).toBeUndefined();
+
+    // the same problem with costs ×1e15 and rates ×1e-300 or ×1e300 (only ratios matter: the MILP
+    // works on normalised rates and costs; costs of 1e15 once made HiGHS fail)
+    for (const [money, rate] of [
+      [1e15, 1],
+      [1e15, 1e-300],
+      [1e15, 1e300],
+    ] as const) {
+      const q: DesignProblem = { ...p, rates: p.rates.map((x) => x * rate), toggles: toggles.map((t) => ({ ...t, price: t.price * money })), budget: 10 * money };
+      const c = await cheapestStableDesign(q);
+      expect(c!.cost).toBe(3 * money);
+      expect(Array.from(c!.design)).toEqual([1, 0, 1, 1]);
+      expect(c!.verifiedMinFlow / rate).toBeCloseTo(0.5, 9);
+      expect(await maxMinFlowDesign(q, 2 * money)).toBeUndefined();
+      const best = await maxMinFlowDesign(q, 10 * money);
+      expect(Array.from(best!.design)).toEqual([1, 0, 1, 1]);
+    }
   });
 });

@@ -20,9 +20,10 @@ const base = {
   compatibilities: [['rookie', 'pro racer'], ['pro racer', 'pro racer'], ['ghost', 'pro racer']],
 };
 const load = (demand: unknown) => parseScenario(JSON.stringify({ ...base, demand }), 'lobby.json');
+// the whole file is validated when it is read, so problems of `demand` come from parseScenario
 const problems = (demand: unknown): Array<{ path: string; message: string }> => {
   try {
-    demandVariants(load(demand), 'lobby.json');
+    load(demand);
   } catch (e) {
     expect(e).toBeInstanceOf(InvalidScenarioError);
     return [...(e as InvalidScenarioError).problems];
@@ -43,17 +44,22 @@ describe('demandVariants', () => {
     expect(Array.from(v[1]!.rates)).toEqual([2, 1, 1.5]);
   });
 
+  it('a variant rate may be 0: no items of that class arrive in the variant', () => {
+    const v = demandVariants(load({ summer: { ghost: 0 } }));
+    expect(Array.from(v[0]!.rates)).toEqual([2, 3, 0]);
+  });
+
   it('lists every problem with its JSON path at once', () => {
     const p = problems({
-      peak: { rookie: 0, 'pro racr': 2, ghost: 'many' },
+      peak: { rookie: -1, 'pro racr': 2, ghost: 'many' },
       today: { rookie: 1 },
       empty: {},
       notAnObject: [1, 2],
     });
     expect(p).toEqual([
-      { path: 'demand.peak.rookie', message: 'rate must be > 0, found 0' },
+      { path: 'demand.peak.rookie', message: 'rate must be >= 0 (0: no arrivals in this variant), found -1' },
       { path: 'demand.peak["pro racr"]', message: 'unknown class "pro racr" (known: rookie, pro racer, ghost)' },
-      { path: 'demand.peak.ghost', message: 'rate must be a finite number, found "many"' },
+      { path: 'demand.peak.ghost', message: 'rate must be a finite number >= 0 (0: no arrivals in this variant), found "many"' },
       { path: 'demand.today', message: 'the name "today" is reserved for the rates written in classes; pick another name' },
       { path: 'demand.empty', message: 'empty: name at least one class and its rate' },
       { path: 'demand.notAnObject', message: 'must be an object mapping class ids to rates, found [1,2]' },
@@ -68,14 +74,14 @@ describe('demandVariants', () => {
 
   it('the error names the source file and counts the problems, as the validator does', () => {
     try {
-      demandVariants(load({ peak: { rookie: -1, ghost: Infinity } }), 'lobby.json');
+      load({ peak: { rookie: -1, ghost: Infinity } });
       throw new Error('unreachable');
     } catch (e) {
       // Infinity is not JSON: it becomes null in the file text, which is refused as not finite
       expect((e as Error).message.split('\n')).toEqual([
         'lobby.json: 2 problems',
-        '  - demand.peak.rookie: rate must be > 0, found -1',
-        '  - demand.peak.ghost: rate must be a finite number, found null',
+        '  - demand.peak.rookie: rate must be >= 0 (0: no arrivals in this variant), found -1',
+        '  - demand.peak.ghost: rate must be a finite number >= 0 (0: no arrivals in this variant), found null',
       ]);
     }
   });
@@ -85,10 +91,9 @@ describe('demandVariants', () => {
     const section = doc.slice(doc.indexOf('## Demand variants'), doc.indexOf('## What each command uses'));
     const shown = section.split('\n').filter((l) => l.startsWith('  - demand'));
     expect(shown.length).toBe(3);
-    const ride = parseScenario(readFileSync(join(import.meta.dirname, '..', '..', 'scenarios', 'ride-pooling-hub.json'), 'utf8'));
-    const withBad = parseScenario(JSON.stringify({ ...ride, ...ride.extra, extra: undefined, demand: { peak: { 'tech-parc': 3, airport: 0 }, today: { airport: 3 } } }));
+    const ride = JSON.parse(readFileSync(join(import.meta.dirname, '..', '..', 'scenarios', 'ride-pooling-hub.json'), 'utf8'));
     try {
-      demandVariants(withBad, 'scenarios/ride.json');
+      parseScenario(JSON.stringify({ ...ride, demand: { peak: { 'tech-parc': 3, airport: -2 }, today: { airport: 3 } } }), 'scenarios/ride.json');
       throw new Error('unreachable');
     } catch (e) {
       const lines = (e as Error).message.split('\n');

@@ -6,7 +6,7 @@
  */
 type Schema = boolean | { readonly [k: string]: unknown };
 
-const ANNOTATIONS = new Set(['$schema', '$defs', 'title', 'description']);
+const ANNOTATIONS = new Set(['$schema', '$defs', '$comment', 'title', 'description']);
 const KEYWORDS = new Set([
   'type',
   'required',
@@ -18,8 +18,14 @@ const KEYWORDS = new Set([
   'maxItems',
   'minimum',
   'exclusiveMinimum',
+  'maximum',
+  'exclusiveMaximum',
+  'minLength',
+  'maxLength',
   'pattern',
   'oneOf',
+  'anyOf',
+  'propertyNames',
   '$ref',
 ]);
 
@@ -35,6 +41,8 @@ function typeOk(type: string, v: unknown): boolean {
       return typeof v === 'string';
     case 'number':
       return typeof v === 'number' && Number.isFinite(v);
+    case 'integer':
+      return typeof v === 'number' && Number.isInteger(v);
     case 'boolean':
       return typeof v === 'boolean';
     case 'null':
@@ -72,11 +80,26 @@ export function checkSchema(root: Schema, value: unknown): string[] {
       }).length;
       if (passing !== 1) out.push(`${path}: oneOf (${passing} branches pass)`);
     }
+    if (Array.isArray(s.anyOf)) {
+      const passing = s.anyOf.some((sub) => {
+        const o: string[] = [];
+        check(sub as Schema, v, path, o);
+        return o.length === 0;
+      });
+      if (!passing) out.push(`${path}: anyOf (no branch passes)`);
+    }
     if (typeof v === 'number') {
       if (typeof s.minimum === 'number' && !(v >= s.minimum)) out.push(`${path}: minimum`);
       if (typeof s.exclusiveMinimum === 'number' && !(v > s.exclusiveMinimum)) out.push(`${path}: exclusiveMinimum`);
+      if (typeof s.maximum === 'number' && !(v <= s.maximum)) out.push(`${path}: maximum`);
+      if (typeof s.exclusiveMaximum === 'number' && !(v < s.exclusiveMaximum)) out.push(`${path}: exclusiveMaximum`);
     }
-    if (typeof v === 'string' && typeof s.pattern === 'string' && !new RegExp(s.pattern, 'u').test(v)) out.push(`${path}: pattern`);
+    if (typeof v === 'string') {
+      if (typeof s.pattern === 'string' && !new RegExp(s.pattern, 'u').test(v)) out.push(`${path}: pattern`);
+      // lengths count code points ("JSON Schema Validation" 6.3.1)
+      if (typeof s.minLength === 'number' && [...v].length < s.minLength) out.push(`${path}: minLength`);
+      if (typeof s.maxLength === 'number' && [...v].length > s.maxLength) out.push(`${path}: maxLength`);
+    }
     if (Array.isArray(v)) {
       if (typeof s.minItems === 'number' && v.length < s.minItems) out.push(`${path}: minItems`);
       if (typeof s.maxItems === 'number' && v.length > s.maxItems) out.push(`${path}: maxItems`);
@@ -89,6 +112,7 @@ export function checkSchema(root: Schema, value: unknown): string[] {
     if (isObject(v)) {
       if (Array.isArray(s.required)) for (const r of s.required as string[]) if (!Object.hasOwn(v, r)) out.push(`${path}: required ${r}`);
       const props = isObject(s.properties) ? s.properties : {};
+      if (s.propertyNames !== undefined) for (const k of Object.keys(v)) check(s.propertyNames as Schema, k, `${path}/${k}`, out);
       for (const [k, item] of Object.entries(v)) {
         if (Object.hasOwn(props, k)) check(props[k] as Schema, item, `${path}/${k}`, out);
         else if (s.additionalProperties !== undefined) check(s.additionalProperties as Schema, item, `${path}/${k}`, out);

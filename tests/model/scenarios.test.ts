@@ -158,8 +158,9 @@ describe('shipped scenarios', () => {
       const doc = raw(f);
       expect(typeof doc.name).toBe('string');
       expect(typeof doc.timeUnit).toBe('string');
-      expect(typeof s.extra.description).toBe('string');
-      expect(String(s.extra.description)).toMatch(/invented/i);
+      expect(typeof s.description).toBe('string');
+      expect(String(s.description)).toMatch(/invented/i);
+      expect(typeof s.costUnit).toBe('string');
       expect(s.classes.every((c) => typeof c.label === 'string' && c.label.length > 0)).toBe(true);
       expect(s.compatibilities.length).toBeGreaterThan(0);
       expect(s.candidates.length).toBeGreaterThan(0);
@@ -241,8 +242,8 @@ describe('game-matchmaking-ladder.json', () => {
 describe('shift-swap-marketplace.json', () => {
   it('carries the caution in its description', () => {
     const s = load('shift-swap-marketplace.json');
-    expect(String(s.extra.description)).toContain('a model to inform decisions, not a substitute for professional judgement and local rules');
-    expect(Array.isArray(s.extra.mustKeep)).toBe(true);
+    expect(String(s.description)).toContain('a model to inform decisions, not a substitute for professional judgement and local rules');
+    expect(s.mustKeep.map((r) => r.pair)).toEqual(raw('shift-swap-marketplace.json').mustKeep);
   });
 });
 

@@ -2,11 +2,13 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { parseScenario } from '../../src/model/validate.js';
+import { scenarioJsonSchemaText } from '../../src/model/schema.js';
 import { checkSchema } from './mini-schema.js';
 
-// docs/scenario.schema.json is for editors; src/model/validate.ts is what edgewise enforces. These
-// checks keep the two in step on the rules a schema can express (single fields). Reference: the
-// keyword meanings of "JSON Schema Validation", draft 2020-12, implemented in ./mini-schema.ts.
+// docs/scenario.schema.json is generated from src/model/schema.ts (`npm run schema`) for editors;
+// src/model/validate.ts is what edgewise enforces. These checks keep the two in step on the rules a
+// schema can express (single fields). Reference: the keyword meanings of "JSON Schema Validation",
+// draft 2020-12, implemented independently in ./mini-schema.ts.
 
 const root = join(import.meta.dirname, '..', '..');
 const schema = JSON.parse(readFileSync(join(root, 'docs', 'scenario.schema.json'), 'utf8'));
@@ -25,13 +27,33 @@ const good = (): Record<string, any> => ({
   $schema: '../docs/scenario.schema.json',
   name: 'swap test',
   timeUnit: 'day',
-  description: 'extra top-level field',
+  description: 'a documented top-level field',
+  costUnit: 'credits',
+  itemWord: 'postings',
+  waitingCost: 0.5,
   classes: [
-    { id: 'icu-day', rate: 3, label: 'ICU day', patience: 4, unit: 'icu' },
+    {
+      id: 'icu-day',
+      rate: 3,
+      label: 'ICU day',
+      group: 'icu',
+      note: 'n',
+      patience: 4,
+      weight: 2,
+      waitTarget: 1,
+      maxCompatibilities: 3,
+      maxAbandonment: 0.2,
+      rateCi95: [2.5, 3.5],
+      data: { unit: 'icu', nested: [1, { a: 2 }] },
+    },
     { id: 'icu-night', rate: 2 },
   ],
-  compatibilities: [['icu-day', 'icu-night'], { pair: ['icu-day', 'icu-day'], removable: true, saving: 2, note: 'x' }],
-  candidates: [{ pair: ['icu-night', 'icu-night'], cost: 10, note: 'y' }],
+  compatibilities: [['icu-day', 'icu-night'], { pair: ['icu-day', 'icu-day'], removable: true, saving: 2, value: -1.5, note: 'x', data: { km: 3 } }],
+  candidates: [{ pair: ['icu-night', 'icu-night'], cost: 10, value: 4, note: 'y', data: {} }],
+  mustKeep: [['icu-day', 'icu-night']],
+  forbidden: [{ pair: ['icu-day', 'icu-day'], reason: 'rule' }],
+  demand: { summer: { 'icu-night': 0 } },
+  data: { owner: 'me' },
   budget: 12,
 });
 
@@ -67,19 +89,46 @@ const broken: Array<[string, (d: Record<string, any>) => void]> = [
   ['name a number', (d) => (d.name = 7)],
   ['timeUnit empty', (d) => (d.timeUnit = '')],
   ['timeUnit blank', (d) => (d.timeUnit = '  ')],
+  ['unknown key in a class (a typo)', (d) => (d.classes[0].waittarget = 1)],
+  ['unknown top-level key', (d) => (d.ringKm = 1)],
+  ['unknown key on a compatibility', (d) => (d.compatibilities[1].km = 1)],
+  ['unknown key on a candidate', (d) => (d.candidates[0].pingMs = 1)],
+  ['maxAbandonment 1', (d) => (d.classes[0].maxAbandonment = 1)],
+  ['maxCompatibilities not whole', (d) => (d.classes[0].maxCompatibilities = 1.5)],
+  ['weight negative', (d) => (d.classes[0].weight = -1)],
+  ['waitTarget zero', (d) => (d.classes[0].waitTarget = 0)],
+  ['rateCi95 of one number', (d) => (d.classes[0].rateCi95 = [1])],
+  ['rateCi95 negative end', (d) => (d.classes[0].rateCi95 = [-1, 4])],
+  ['data an array', (d) => (d.classes[0].data = [1])],
+  ['top-level data a string', (d) => (d.data = 'x')],
+  ['value a string', (d) => (d.candidates[0].value = '4')],
+  ['waitingCost negative', (d) => (d.waitingCost = -1)],
+  ['demand rate negative', (d) => (d.demand.summer['icu-night'] = -1)],
+  ['demand variant not an object', (d) => (d.demand.summer = 3)],
+  ['rule of three ids', (d) => d.mustKeep.push(['icu-day', 'icu-night', 'icu-day'])],
+  ['rule reason a number', (d) => (d.forbidden[0].reason = 3)],
+  ['class id too long', (d) => (d.classes[1].id = 'x'.repeat(201))],
 ];
 
 describe('docs/scenario.schema.json agrees with the validator', () => {
+  it('the committed file is the one generated from src/model/schema.ts (run `npm run schema` after a change)', () => {
+    expect(readFileSync(join(root, 'docs', 'scenario.schema.json'), 'utf8')).toBe(scenarioJsonSchemaText());
+  });
+
   it('is a draft 2020-12 schema whose required lists match the validator', () => {
     expect(schema.$schema).toBe('https://json-schema.org/draft/2020-12/schema');
     expect(schema.required).toEqual(['classes']);
-    expect(schema.$defs.class.required).toEqual(['id', 'rate']);
-    expect(schema.$defs.candidate.required).toEqual(['pair', 'cost']);
-    expect(Object.keys(schema.properties).sort()).toEqual(['$schema', 'budget', 'candidates', 'classes', 'compatibilities', 'name', 'timeUnit']);
-    // extra fields are kept by the validator, so the schema must allow them everywhere
-    expect(schema.additionalProperties).toBe(true);
-    expect(schema.$defs.class.additionalProperties).toBe(true);
-    expect(schema.$defs.candidate.additionalProperties).toBe(true);
+    const cls = schema.properties.classes.items;
+    expect(cls.required).toEqual(['id', 'rate']);
+    expect(schema.properties.candidates.items.required).toEqual(['pair', 'cost']);
+    expect(Object.keys(schema.properties).sort()).toEqual(
+      ['$schema', 'budget', 'candidates', 'classes', 'compatibilities', 'costUnit', 'data', 'demand', 'description', 'forbidden', 'itemWord', 'mustKeep', 'name', 'timeUnit', 'waitingCost'].sort(),
+    );
+    // unknown keys are refused by the validator, so the schema refuses them too; data is free-form
+    expect(schema.additionalProperties).toBe(false);
+    expect(cls.additionalProperties).toBe(false);
+    expect(schema.properties.candidates.items.additionalProperties).toBe(false);
+    expect(cls.properties.data.type).toBe('object');
   });
 
   it('both accept a full valid document and a minimal one', () => {

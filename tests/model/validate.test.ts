@@ -45,7 +45,10 @@ describe('parseScenario: valid documents', () => {
     expect(s.compatibilities.map((c) => c.pair)).toEqual([['north', 'centre'], ['centre', 'centre'], ['centre', 'east']]);
     expect(s.candidates).toEqual([{ pair: ['north', 'east'], cost: 40 }]);
     expect(s.budget).toBe(50);
-    expect(s.extra).toEqual({});
+    expect(s.mustKeep).toEqual([]);
+    expect(s.forbidden).toEqual([]);
+    expect(s.demand).toEqual([]);
+    expect('data' in s).toBe(false);
   });
 
   it('fills the documented defaults for a minimal document', () => {
@@ -79,24 +82,57 @@ describe('parseScenario: valid documents', () => {
     ]);
   });
 
-  it('keeps unknown top-level fields in scenario.extra ($schema included)', () => {
-    const doc = { $schema: '../docs/scenario.schema.json', description: 'invented', costUnit: 'credits', ...base(), tags: ['a', 1] };
+  it('reads the documented top-level fields, ignores "$schema" and keeps "data" as written', () => {
+    const doc = { $schema: '../docs/scenario.schema.json', description: 'invented', costUnit: 'credits', itemWord: 'riders', waitingCost: 2, ...base(), data: { tags: ['a', 1] } };
     const s = parseScenario(JSON.stringify(doc));
-    expect(s.extra).toEqual({ $schema: '../docs/scenario.schema.json', description: 'invented', costUnit: 'credits', tags: ['a', 1] });
+    expect(s).toMatchObject({ description: 'invented', costUnit: 'credits', itemWord: 'riders', waitingCost: 2, data: { tags: ['a', 1] } });
+    expect('$schema' in s).toBe(false);
   });
 
-  it('keeps a top-level "__proto__" field as data and leaves the prototype alone', () => {
-    const s = parseScenario('{"classes": [{"id": "a", "rate": 1}], "__proto__": {"polluted": true}}');
-    expect(Object.keys(s.extra)).toEqual(['__proto__']);
-    expect(Object.getPrototypeOf(s.extra)).toBe(Object.prototype);
-    expect((s.extra as Record<string, unknown>).polluted).toBeUndefined();
+  it('refuses a top-level "__proto__" field as an unknown key and leaves the prototype alone', () => {
+    const ps = problemsOf('{"classes": [{"id": "a", "rate": 1}], "__proto__": {"polluted": true}}');
+    expect(ps).toEqual([{ path: '__proto__', message: expect.stringMatching(/^unknown field "__proto__"/) }]);
+    expect(({} as Record<string, unknown>).polluted).toBeUndefined();
   });
 
-  it('keeps per-class extra fields, label and patience on the class object', () => {
+  it('keeps per-class fields on the class object; own data only under "data"', () => {
     const doc = base();
-    doc.classes[0] = { id: 'north', rate: 12.5, label: 'North', patience: 0.25, ringKm: 3.2, tags: { zone: 1 } };
+    doc.classes[0] = { id: 'north', rate: 12.5, label: 'North', group: 'ring', note: 'n', patience: 0.25, maxAbandonment: 0.1, rateCi95: [11, 14], data: { ringKm: 3.2, tags: { zone: 1 } } };
     const s = parseScenario(JSON.stringify(doc));
-    expect(s.classes[0]).toEqual({ id: 'north', rate: 12.5, label: 'North', patience: 0.25, ringKm: 3.2, tags: { zone: 1 } });
+    expect(s.classes[0]).toEqual(doc.classes[0]);
+  });
+
+  it('refuses unknown keys everywhere, suggesting a close known key (case or a small edit)', () => {
+    const doc = base();
+    doc.classes[0].waittarget = 0.5;
+    doc.classes[1].rte = 4;
+    doc.classes[2].ringKm = 3;
+    doc.compatibilities[0] = { pair: ['north', 'centre'], removeable: true };
+    doc.candidates[0].Cost = 1;
+    doc.budgte = 3;
+    const ps = problemsOf(doc);
+    expect(ps).toEqual([
+      { path: 'classes[0].waittarget', message: 'unknown field "waittarget": did you mean `waitTarget`?' },
+      { path: 'classes[1].rte', message: 'unknown field "rte": did you mean `rate`?' },
+      { path: 'classes[2].ringKm', message: expect.stringMatching(/^unknown field "ringKm" \(known: id, rate, .*\); put data of your own under "data"$/) },
+      { path: 'compatibilities[0].removeable', message: 'unknown field "removeable": did you mean `removable`?' },
+      { path: 'candidates[0].Cost', message: 'unknown field "Cost": did you mean `cost`?' },
+      { path: 'budgte', message: 'unknown field "budgte": did you mean `budget`?' },
+    ]);
+  });
+
+  it('reads mustKeep / forbidden in both forms and demand variants with zero rates', () => {
+    const doc = { ...base(), compatibilities: [['north', 'centre'], { pair: ['centre', 'east'], removable: true }], mustKeep: [['centre', 'north']], forbidden: [{ pair: ['east', 'centre'], reason: 'closed road' }], demand: { night: { east: 0 } } };
+    const s = parseScenario(JSON.stringify(doc));
+    expect(s.mustKeep).toEqual([{ pair: ['centre', 'north'] }]);
+    expect(s.forbidden).toEqual([{ pair: ['east', 'centre'], reason: 'closed road' }]);
+    expect(s.demand).toEqual([{ name: 'night', rates: { east: 0 } }]);
+  });
+
+  it('a rate interval must hold its rate', () => {
+    const doc = base();
+    doc.classes[0].rateCi95 = [13, 14];
+    expect(problemsOf(doc)).toEqual([{ path: 'classes[0].rateCi95', message: expect.stringMatching(/must contain the rate 12.5/) }]);
   });
 
   it('keeps extra fields on candidates', () => {
@@ -176,8 +212,8 @@ describe('parseScenario: one problem at a time, each with its JSON path', () => 
     doc.classes.push({ id: 'w1' }, { id: 'w2', rate: '12' }, { id: 'w3', rate: null }, { id: 'w4', rate: 0 }, { id: 'w5', rate: -2 });
     expect(problemsOf(doc)).toEqual([
       { path: 'classes[3].rate', message: expect.stringMatching(/rate missing/) },
-      { path: 'classes[4].rate', message: expect.stringMatching(/finite number, found "12"/) },
-      { path: 'classes[5].rate', message: expect.stringMatching(/finite number, found null/) },
+      { path: 'classes[4].rate', message: expect.stringMatching(/finite number > 0, found "12"/) },
+      { path: 'classes[5].rate', message: expect.stringMatching(/finite number > 0, found null/) },
       { path: 'classes[6].rate', message: expect.stringMatching(/> 0, found 0/) },
       { path: 'classes[7].rate', message: expect.stringMatching(/> 0, found -2/) },
     ]);
@@ -279,10 +315,10 @@ describe('parseScenario: one problem at a time, each with its JSON path', () => 
     expect(problemsOf(doc)).toEqual([
       { path: 'compatibilities[0].removable', message: expect.stringMatching(/true or false/) },
       { path: 'compatibilities[0].saving', message: 'saving must be >= 0, found -1' },
-      { path: 'compatibilities[2].saving', message: expect.stringMatching(/finite number, found "5"/) },
+      { path: 'compatibilities[2].saving', message: expect.stringMatching(/finite number >= 0, found "5"/) },
       { path: 'candidates[0].cost', message: 'cost must be >= 0, found -40' },
       { path: 'candidates[1].cost', message: 'cost missing' },
-      { path: 'candidates[2].cost', message: expect.stringMatching(/finite number, found "cheap"/) },
+      { path: 'candidates[2].cost', message: expect.stringMatching(/finite number >= 0, found "cheap"/) },
       { path: 'candidates[3]', message: expect.stringMatching(/must be an object/) },
     ]);
   });
@@ -374,7 +410,7 @@ describe('parseScenario: many problems at once', () => {
       expect.stringMatching(/> 0, found 0/),
       expect.stringMatching(/> 0, found -1/),
       expect.stringMatching(/patience/),
-      expect.stringMatching(/finite number, found "fast"/),
+      expect.stringMatching(/finite number > 0, found "fast"/),
       expect.stringMatching(/duplicate pair/),
       expect.stringMatching(/unknown class "airport"/),
       'saving must be >= 0, found -3',

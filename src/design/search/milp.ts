@@ -3,7 +3,8 @@
  *
  * Variables: x_j ∈ {0, 1} per toggle (is the compatibility in the design?), a flow μ_e ≥ 0 per
  * possible edge (fixed pairs and toggles), and t, the smallest flow on a present edge. Rates are
- * divided by their mean (`unit`) so that the coefficients stay near 1.
+ * divided by a power of two near their mean (`unit`) and costs by one near their mean size, so that
+ * the coefficients stay near 1.
  *
  *   Σ_{e∋k} a_{k,e} μ_e = λ_k                 every class k (a = 2 for a self-loop, else 1)
  *   μ_e ≤ U_e x_j                             toggle j on edge e, U_e = min(λ_a, λ_b) (λ_a / 2 for a loop)
@@ -31,6 +32,7 @@
 import { SolverError } from '../../errors.js';
 import { compileGraph } from '../../model/compile.js';
 import { checkStability } from '../../stability/check.js';
+import { powerOfTwoScale } from '../../model/rate-scale.js';
 import { solveWithHighs } from '../../solvers/highs.js';
 import type { LinearProgram, LpConstraint, LpVariable } from '../../solvers/lp.js';
 import { degreesAllowed, designCost, designPairs, type DesignProblem } from '../space/problem.js';
@@ -68,9 +70,10 @@ export interface FlowMilp {
 export function flowMilp(problem: DesignProblem, options: FlowMilpOptions): FlowMilp {
   const { n, rates, fixed, toggles } = problem;
   const k = toggles.length;
-  let total = 0;
-  for (let i = 0; i < n; i++) total += rates[i]!;
-  const unit = total / n;
+  // rates in units of a power of two near their mean, costs in units of a power of two near their
+  // mean size: coefficients stay near 1 whatever the scale of the file (costs of 1e15 made HiGHS fail)
+  const unit = powerOfTwoScale(rates);
+  const money = powerOfTwoScale(toggles.map((t) => Math.abs(t.price)));
   let bigM = Infinity;
   for (let i = 0; i < n; i++) bigM = Math.min(bigM, rates[i]! / unit);
   const edges: Array<readonly [number, number]> = [...fixed, ...toggles.map((t) => [t.a, t.b] as const)];
@@ -113,9 +116,9 @@ export function flowMilp(problem: DesignProblem, options: FlowMilpOptions): Flow
     constraints.push({
       name: 'budget',
       variables: toggles.map((_, j) => j),
-      coefficients: toggles.map((t) => t.price),
+      coefficients: toggles.map((t) => t.price / money),
       relation: '<=',
-      rhs: budget - baseCost + 1e-9 * (1 + Math.abs(budget)),
+      rhs: (budget - baseCost + 1e-9 * (Math.abs(budget) + Math.abs(baseCost) + money)) / money,
     });
   }
   for (let i = 0; i < n; i++) {
@@ -134,7 +137,7 @@ export function flowMilp(problem: DesignProblem, options: FlowMilpOptions): Flow
   const objective =
     options.goal === 'max-flow'
       ? { variables: [tCol], coefficients: [1] }
-      : { variables: toggles.map((_, j) => j), coefficients: toggles.map((t) => t.price) };
+      : { variables: toggles.map((_, j) => j), coefficients: toggles.map((t) => t.price / money) };
   const lp: LinearProgram = { sense: options.goal === 'max-flow' ? 'max' : 'min', objective, variables, constraints };
   return { lp, tCol, unit, bigM, baseCost };
 }
