@@ -13,6 +13,7 @@ import { paretoChart } from './pareto-chart.js';
 import { REPORT_CSS } from './report-css.js';
 import { sweepChart } from './sweep-chart.js';
 import { curveWords, namerOf, pairWords, verdicts, type Namer } from './verdicts.js';
+import { changeWord } from '../output/text/recommend.js';
 import { waitChart } from './wait-chart.js';
 
 export interface ReportMeta {
@@ -218,7 +219,7 @@ ${figure('chart-sweep', chart, `Mean number of ${r.itemWord} waiting as the dema
 }
 
 const ADVICE: Record<string, { tag: string; cls: string; words: string }> = {
-  harmful: { tag: 'harmful', cls: 'bad', words: 'Do not fund: waiting goes up.' },
+  harmful: { tag: 'harmful', cls: 'bad', words: 'Waiting goes up: do not pay for it.' },
   'no effect': { tag: '', cls: '', words: 'No measurable effect on waiting.' },
   'over budget': { tag: '', cls: '', words: 'Helps, but costs more than the budget allows.' },
   'not allowed': { tag: '', cls: '', words: 'Helps, but the limits or wait targets do not allow it.' },
@@ -243,7 +244,7 @@ function changesSection(r: ReportRecord, name: Namer): Markup {
 function changeRow(v: VerdictRecord, t: VerdictRecord | undefined, base: number, r: ReportRecord, name: Namer): Markup {
   const a = ADVICE[v.advice ?? ''] ?? { tag: '', cls: '', words: v.advice ?? '' };
   const cls = a.cls === 'bad' ? ' class="flag-bad"' : '';
-  const what = `${v.change === 'add' ? 'add' : 'drop'} ${pairWords(v.pair, name)}`;
+  const what = `${changeWord(v)} ${pairWords(v.pair, name)}`;
   const money = v.change === 'add' ? num(v.price) : `−${num(v.price)}`;
   const diff = v.backlogDelta === null ? 'unbounded' : `${signed(v.backlogDelta)} (${base > 0 ? signedPct(v.backlogDelta / base) : '—'})`;
   const fromToday = !t ? '—' : t.backlogDelta === null ? 'unbounded' : signed(t.backlogDelta);

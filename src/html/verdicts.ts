@@ -103,6 +103,9 @@ export function verdicts(r: ReportRecord, name: Namer): string[] {
 
 function harmfulSentence(v: VerdictRecord, base: number, name: Namer, r: ReportRecord): string {
   const rel = base > 0 ? v.backlogDelta! / base : NaN;
+  if (v.kind === 'removable') {
+    return `Drop ${pairWords(v.pair, name)} as recommended: keeping it would forgo its saving (${money(v.price, r.costUnit)}) and raise waiting by ${pct(rel)}. More flexibility is not always better.`;
+  }
   return `Do not pay for ${pairWords(v.pair, name)} (${money(v.price, r.costUnit)}): added to the recommended design it raises waiting by ${pct(rel)}. More flexibility is not always better.`;
 }
 

@@ -39,11 +39,7 @@ export interface ScenarioContext {
   readonly design: Uint8Array;
 }
 
-function text(scenario: Scenario, key: string): string | null {
-  const s = scenario as unknown as Record<string, unknown>;
-  const v = s[key] ?? (s['extra'] as Record<string, unknown> | undefined)?.[key];
-  return typeof v === 'string' && v.trim() !== '' ? v : null;
-}
+const text = (v: string | undefined): string | null => (typeof v === 'string' && v.trim() !== '' ? v : null);
 
 export interface ContextOptions {
   readonly source: string;
@@ -117,9 +113,9 @@ export function scenarioContext(scenario: Scenario, options: ContextOptions): Sc
     fields,
     variants,
     problem: withRates,
-    costUnit: text(scenario, 'costUnit'),
-    itemWord: text(scenario, 'itemWord') ?? 'items',
-    description: text(scenario, 'description'),
+    costUnit: text(scenario.costUnit),
+    itemWord: text(scenario.itemWord) ?? 'items',
+    description: text(scenario.description),
     patience: scenario.classes.some((c) => c.patience !== undefined),
     reference,
     model: options.design ? model : today,
@@ -152,18 +148,8 @@ export interface PairRule {
 
 /** The scenario's rules by pair key (pairKey), with their reasons when the file gives them. */
 export function pairRules(scenario: Scenario): Map<string, PairRule> {
-  const s = scenario as unknown as Record<string, unknown>;
-  const extra = (s['extra'] as Record<string, unknown> | undefined) ?? {};
   const out = new Map<string, PairRule>();
-  for (const kind of ['mustKeep', 'forbidden'] as const) {
-    const list = (s[kind] ?? extra[kind]) as unknown;
-    if (!Array.isArray(list)) continue;
-    for (const entry of list as unknown[]) {
-      const pair = Array.isArray(entry) ? entry : (entry as { pair?: unknown })?.pair;
-      if (!Array.isArray(pair) || pair.length !== 2) continue;
-      const reason = !Array.isArray(entry) && typeof (entry as { reason?: unknown }).reason === 'string' ? ((entry as { reason: string }).reason) : null;
-      out.set(pairKey(String(pair[0]), String(pair[1])), { kind: kind === 'mustKeep' ? 'must-keep' : 'forbidden', reason });
-    }
-  }
+  for (const r of scenario.mustKeep) out.set(pairKey(r.pair[0], r.pair[1]), { kind: 'must-keep', reason: r.reason ?? null });
+  for (const r of scenario.forbidden) out.set(pairKey(r.pair[0], r.pair[1]), { kind: 'forbidden', reason: r.reason ?? null });
   return out;
 }

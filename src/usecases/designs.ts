@@ -66,6 +66,8 @@ export function designFigures(problem: DesignProblem, d: DesignDetails): DesignF
 
 export interface VerdictRecord {
   readonly pair: PairIds;
+  /** A candidate (costs money to add) or a removable compatibility of today's design (saves money when dropped). */
+  readonly kind: 'candidate' | 'removable';
   /** 'add': the pair is outside the design measured against; 'remove': inside it. */
   readonly change: 'add' | 'remove';
   /** The design the change is measured against. */
@@ -91,6 +93,7 @@ export function verdictRecord(problem: DesignProblem, v: Verdict): VerdictRecord
   const t = problem.toggles[v.toggle]!;
   return {
     pair: pairIds(problem, t.a, t.b),
+    kind: t.kind,
     change: v.change,
     against: v.against,
     delta: finite(v.delta),

@@ -101,7 +101,7 @@ function inputsOf(ctx: ScenarioContext): InputsRecord {
     classes: ctx.scenario.classes.map((c, k) => ({
       id: c.id,
       label: typeof c.label === 'string' && c.label !== '' ? c.label : null,
-      group: typeof c['group'] === 'string' && c['group'] !== '' ? (c['group'] as string) : null,
+      group: c.group ?? null,
       rate: c.rate,
       patience: c.patience ?? null,
       weight: f.weight[k] === 1 ? null : f.weight[k]!,

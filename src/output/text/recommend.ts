@@ -4,8 +4,14 @@ import { count, money, num, pairText, pct, signed, wait, waitScale, type WaitSca
 import { changesText, instabilityBlocks } from './common.js';
 import { para, tableBlock, title, type Block } from './doc.js';
 
+/** The change in words: fund / stop funding a candidate, keep / drop a removable compatibility. */
+export function changeWord(v: Pick<VerdictRecord, 'kind' | 'change'>): string {
+  if (v.kind === 'candidate') return v.change === 'add' ? 'fund' : 'stop funding';
+  return v.change === 'add' ? 'keep' : 'drop';
+}
+
 const ADVICE_WORDS: Record<string, string> = {
-  harmful: 'harmful: do not fund',
+  harmful: 'harmful',
   'no effect': 'no effect',
   'over budget': 'helps, but over the budget',
   'not allowed': 'helps, but not allowed (limits or targets)',
@@ -36,11 +42,11 @@ export function verdictBlocks(d: DecisionPart, scale: WaitScale): Block[] {
   const rows = [...rec].sort((a, b) => order(a) - order(b) || (a.delta ?? Infinity) - (b.delta ?? Infinity)).map((v) => {
     const t = today.get(`${v.pair[0]}\u0001${v.pair[1]}`);
     return [
-      `${v.change === 'add' ? 'add' : 'drop'} ${pairText(v.pair)}`,
+      `${changeWord(v)} ${pairText(v.pair)}`,
       num(v.price),
       deltaText(d, v, scale),
       ADVICE_WORDS[v.advice ?? ''] ?? v.advice ?? '',
-      t ? `${t.change === 'add' ? 'add' : 'drop'}: ${deltaText(d, t, scale)}` : '—',
+      t ? `${changeWord(t)}: ${deltaText(d, t, scale)}` : '—',
     ];
   });
   return [
