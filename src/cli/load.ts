@@ -51,6 +51,8 @@ export interface ContextFlags {
   readonly design?: string;
   /** A demand variant of the scenario. */
   readonly demand?: string;
+  /** Add the fitted-interval variants (low and high ends of every class's rateCi95). */
+  readonly rateIntervals?: boolean;
 }
 
 /** Scenario, design and demand → the context every use case starts from. */
@@ -63,6 +65,7 @@ export function loadContext(flags: ContextFlags, cwd: string): ScenarioContext {
     ...(budget === undefined ? {} : { budget }),
     ...(design ? { design } : {}),
     ...(flags.demand === undefined ? {} : { demand: flags.demand }),
+    ...(flags.rateIntervals ? { rateIntervals: true } : {}),
   });
 }
 

@@ -128,6 +128,7 @@ program
   .option('--budgets <list>', 'budgets to compare, e.g. 50,100,200 (one column per scenario and budget)')
   .option('--design <file>', 'a design file applied to every column instead of today\'s')
   .option('--demand <name>', 'use this demand variant as the rates of every column')
+  .option('--rate-intervals', 'add the demand variants "fitted low" and "fitted high" from the classes\' fitted rate intervals (rateCi95)')
   .option('--json', 'machine-readable output (JSON)')
   .option('--csv', 'one CSV line per column')
   .option('--wide', 'text: one table with every column, whatever the terminal width')
@@ -136,6 +137,7 @@ program
 
 scenarioFlags(program.command('report').description('one self-contained HTML report: the decision, the graph, cost against waiting, waits, load sweep, single changes, demand futures, inputs'), { budget: true })
   .requiredOption('-o, --output <file>', 'HTML file to write, e.g. report.html')
+  .option('--rate-intervals', 'add the demand variants "fitted low" and "fitted high" from the classes\' fitted rate intervals (rateCi95)')
   .option('--jobs <n>', 'worker threads of the recommender')
   .option('--seed <s>', 'seed of the simulated figures shown when classes have patience (default 1)')
   .action((file: string, opts: Record<string, unknown>) => action('report', async () => (await import('./commands/report.js')).reportCommand)({ ...opts, file }));

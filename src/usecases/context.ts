@@ -48,6 +48,28 @@ export interface ContextOptions {
   readonly design?: DesignChanges & { readonly from: string };
   /** Name of a demand variant of the scenario. */
   readonly demand?: string;
+  /**
+   * Add two demand variants from the classes' fitted intervals (`rateCi95`, e.g. written by `fit`):
+   * "fitted low" (every class at the low end) and "fitted high" (every class at the high end), so
+   * that a robust choice covers what the data cannot rule out.
+   */
+  readonly rateIntervals?: boolean;
+}
+
+/** Names of the variants `rateIntervals` adds. */
+export const FITTED_LOW = 'fitted low';
+export const FITTED_HIGH = 'fitted high';
+
+/** The two variants of the classes' fitted intervals (throws UsageError when no class has one). */
+export function intervalVariants(scenario: Scenario): DemandVariant[] {
+  const withCi = scenario.classes.filter((c) => c.rateCi95 !== undefined);
+  if (withCi.length === 0) throw new UsageError('--rate-intervals: no class of the scenario has a fitted interval (rateCi95); `edgewise fit` writes them');
+  const end = (i: 0 | 1): DemandVariant => ({
+    name: i === 0 ? FITTED_LOW : FITTED_HIGH,
+    rates: Float64Array.from(scenario.classes, (c) => (c.rateCi95 ? c.rateCi95[i] : c.rate)),
+    changed: withCi.map((c) => c.id),
+  });
+  return [end(0), end(1)];
 }
 
 /** The toggle vector of a design given as changes (throws UsageError for changes the problem cannot make). */
@@ -83,7 +105,12 @@ export function designVector(problem: DesignProblem, changes: DesignChanges, fro
 /** The context of a command (throws UsageError for an unknown demand variant or an impossible design). */
 export function scenarioContext(scenario: Scenario, options: ContextOptions): ScenarioContext {
   const fields = readDesignFields(scenario, options.source);
-  const variants = demandVariants(scenario, options.source);
+  const declared = demandVariants(scenario, options.source);
+  const fitted = options.rateIntervals ? intervalVariants(scenario) : [];
+  for (const v of fitted) {
+    if (declared.some((d) => d.name === v.name)) throw new UsageError(`--rate-intervals: the scenario already has a demand variant named "${v.name}"`);
+  }
+  const variants = [...declared, ...fitted];
   let rates: ArrayLike<number> = scenario.classes.map((c) => c.rate);
   if (options.demand !== undefined && options.demand !== 'today') {
     const v = variants.find((x) => x.name === options.demand);

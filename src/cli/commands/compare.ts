@@ -13,6 +13,7 @@ export interface CompareOptions extends OutputOptions {
   readonly budgets?: string;
   readonly design?: string;
   readonly demand?: string;
+  readonly rateIntervals?: boolean;
   /** Columns evaluated at once. */
   readonly jobs?: number | string;
 }
@@ -37,7 +38,7 @@ export function compareCommand(opts: CompareOptions, io: CommandIO): Promise<num
         if (opts.files.length === 0) throw new UsageError('compare needs at least one scenario file');
         const concurrency = wholeNumber(opts.jobs, '--jobs', 1, 2, 64);
         const budgets = opts.budgets === undefined ? undefined : parseBudgets(opts.budgets);
-        const flags = { ...(opts.design ? { design: opts.design } : {}), ...(opts.demand ? { demand: opts.demand } : {}) };
+        const flags = { ...(opts.design ? { design: opts.design } : {}), ...(opts.demand ? { demand: opts.demand } : {}), ...(opts.rateIntervals ? { rateIntervals: true } : {}) };
         const columns = opts.files.flatMap((file) =>
           budgets ? budgets.map((budget) => ({ ctx: loadContext({ file, budget, ...flags }, io.cwd), budget })) : [{ ctx: loadContext({ file, ...flags }, io.cwd) }],
         );

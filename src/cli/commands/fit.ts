@@ -1,8 +1,10 @@
 import { UsageError } from '../../errors.js';
-import { fitLog, type FitResult } from '../../intake/fit-log.js';
+import { fitLog } from '../../intake/fit-log.js';
 import { fitRecord } from '../../intake/fit-record.js';
 import { fitScenario } from '../../intake/fit-scenario.js';
-import { num, table } from '../format.js';
+import { fitText } from '../../output/text/intake.js';
+import { execute } from '../command.js';
+import { wholeNumber } from '../options.js';
 import type { CommandIO } from '../io.js';
 import { readInputFile } from '../load.js';
 import { prepareOutput, writeFileAtomic } from '../write.js';
@@ -14,7 +16,7 @@ export interface FitCommandOptions {
   readonly outcome?: string;
   readonly wait?: string;
   readonly timeUnit?: string;
-  readonly bands?: number;
+  readonly bands?: number | string;
   readonly bandHours?: string;
   readonly from?: string;
   readonly to?: string;
@@ -23,71 +25,47 @@ export interface FitCommandOptions {
   readonly output?: string;
 }
 
-const interval = (p: readonly [number | null, number | null]): string => `${p[0] === null ? '∞' : num(p[0])} – ${p[1] === null ? '∞' : num(p[1])}`;
-
-/** The human-readable output. */
-export function renderFit(r: FitResult): string {
-  const rec = fitRecord(r);
-  const u = r.timeUnit;
-  const parts: string[] = [`${r.source} — arrival rates per class (per ${u})`];
-  const how = r.timeFormat === 'iso' ? `ISO timestamps (UTC where no offset is written), converted to ${u}s` : `numbers, read as ${u}s (--time-unit)`;
-  const est = r.window.estimated ? ', estimated: first to last arrival plus one mean gap at each end' : '';
-  const at = (v: number | string): string => (typeof v === 'string' ? v.replace(/\.\d+Z$/, 'Z') : num(v));
-  parts.push(`times: ${how} · window ${at(rec.window.from)} to ${at(rec.window.to)} (${num(r.window.length)} ${u}s${est}) · ${r.arrivals} arrivals`);
-  const withPatience = rec.classes.some((c) => c.patience);
-  const t = table(
-    ['class', 'arrivals', `rate /${u}`, '95 % interval (exact)', 'dispersion p', ...(withPatience ? [`mean patience (${u})`, '95 % interval', 'abandoned'] : [])],
-    ['left', 'right', 'right', 'right', 'right', ...(withPatience ? (['right', 'right', 'right'] as const) : [])],
-  );
-  for (const c of rec.classes) {
-    const p = c.patience;
-    t.push([
-      c.id,
-      String(c.count),
-      num(c.rate),
-      interval(c.ci95),
-      c.dispersion ? num(c.dispersion.pValue, 2) : '—',
-      ...(withPatience ? (p ? [p.mean === null ? '∞ (none left)' : num(p.mean), interval(p.ci95), `${p.abandoned} of ${p.abandoned + p.censored}`] : ['—', '—', '—']) : []),
-    ]);
-  }
-  parts.push(t.toString());
-  if (rec.classes.some((c) => c.bands)) {
-    const b = table(['class', 'band', 'arrivals', `exposure (${u})`, `rate /${u}`, '95 % interval (exact)'], ['left', 'left', 'right', 'right', 'right', 'right']);
-    for (const c of rec.classes) for (const x of c.bands ?? []) b.push([c.id, x.band, String(x.count), num(x.exposure), num(x.rate), interval(x.ci95)]);
-    parts.push(`Per time band\n${b.toString()}`);
-  }
-  if (r.warnings.length > 0) parts.push(r.warnings.map((w) => `warning: ${w}`).join('\n'));
-  return `${parts.join('\n\n')}\n`;
-}
-
 /** `edgewise fit LOG.csv --time COL --class COL …`: rates with exact intervals, patience, dispersion. */
-export async function fitCommand(opts: FitCommandOptions, io: CommandIO): Promise<number> {
-  if (opts.compatibilities !== undefined && opts.output === undefined) throw new UsageError('--compatibilities builds a scenario file: give it a name with -o, e.g. -o scenario.json');
-  const inputs = [opts.file, ...(opts.compatibilities ? [opts.compatibilities] : [])];
-  const target = opts.output === undefined ? undefined : prepareOutput(opts.output, io.cwd, inputs);
-  const result = fitLog(readInputFile(opts.file, io.cwd), opts.file, {
-    time: opts.time,
-    class: opts.class,
-    ...(opts.outcome === undefined ? {} : { outcome: opts.outcome }),
-    ...(opts.wait === undefined ? {} : { wait: opts.wait }),
-    ...(opts.timeUnit === undefined ? {} : { timeUnit: opts.timeUnit }),
-    ...(opts.bands === undefined ? {} : { bands: opts.bands }),
-    ...(opts.bandHours === undefined ? {} : { bandHours: opts.bandHours }),
-    ...(opts.from === undefined ? {} : { from: opts.from }),
-    ...(opts.to === undefined ? {} : { to: opts.to }),
-  });
-  let wrote = '';
-  if (target !== undefined) {
-    const warnings: string[] = [];
-    const compatibilities = opts.compatibilities === undefined ? undefined : { text: readInputFile(opts.compatibilities, io.cwd), file: opts.compatibilities };
-    const { document } = fitScenario(result, compatibilities ? { compatibilities } : {}, warnings);
-    writeFileAtomic(target, `${JSON.stringify(document, null, 2)}\n`);
-    const kind = compatibilities ? `a scenario with the compatibilities of ${opts.compatibilities}` : 'a scenario fragment (classes only: add compatibilities with --compatibilities FILE)';
-    wrote = `wrote ${opts.output}: ${kind}\n${warnings.map((w) => `warning: ${w}\n`).join('')}`;
-  }
-  if (opts.json) {
-    io.out(`${JSON.stringify(fitRecord(result), null, 2)}\n`);
-    if (wrote !== '') io.err(wrote);
-  } else io.out(renderFit(result) + (wrote === '' ? '' : `\n${wrote}`));
-  return 0;
+export function fitCommand(opts: FitCommandOptions, io: CommandIO): Promise<number> {
+  let wrote: string | null = null;
+  return execute(
+    {
+      load: (io) => {
+        if (opts.compatibilities !== undefined && opts.output === undefined) throw new UsageError('--compatibilities builds a scenario file: give it a name with -o, e.g. -o scenario.json');
+        const inputs = [opts.file, ...(opts.compatibilities ? [opts.compatibilities] : [])];
+        const target = opts.output === undefined ? undefined : prepareOutput(opts.output, io.cwd, inputs);
+        const bands = opts.bands === undefined ? undefined : wholeNumber(opts.bands, '--bands', 1, 1, 1000);
+        return { target, log: readInputFile(opts.file, io.cwd), bands };
+      },
+      run: async ({ target, log, bands }, io) => {
+        const result = fitLog(log, opts.file, {
+          time: opts.time,
+          class: opts.class,
+          ...(opts.outcome === undefined ? {} : { outcome: opts.outcome }),
+          ...(opts.wait === undefined ? {} : { wait: opts.wait }),
+          ...(opts.timeUnit === undefined ? {} : { timeUnit: opts.timeUnit }),
+          ...(bands === undefined ? {} : { bands }),
+          ...(opts.bandHours === undefined ? {} : { bandHours: opts.bandHours }),
+          ...(opts.from === undefined ? {} : { from: opts.from }),
+          ...(opts.to === undefined ? {} : { to: opts.to }),
+        });
+        const record = fitRecord(result);
+        if (target !== undefined) {
+          const warnings: string[] = [];
+          const compatibilities = opts.compatibilities === undefined ? undefined : { text: readInputFile(opts.compatibilities, io.cwd), file: opts.compatibilities };
+          const { document } = fitScenario(result, compatibilities ? { compatibilities } : {}, warnings);
+          writeFileAtomic(target, `${JSON.stringify(document, null, 2)}\n`);
+          wrote = `wrote ${opts.output}: ${compatibilities ? `a scenario with the compatibilities of ${opts.compatibilities}` : 'a scenario fragment (classes only: add compatibilities with --compatibilities FILE)'}`;
+          return { ...record, warnings: [...record.warnings, ...warnings] };
+        }
+        return record;
+      },
+      text: (r) => fitText(r, wrote),
+      after: (_r, _i, io) => {
+        if (opts.json && wrote) io.err(`${wrote}\n`);
+      },
+    },
+    opts,
+    io,
+  );
 }
