@@ -14,6 +14,7 @@ import { REPORT_CSS } from './report-css.js';
 import { sweepChart } from './sweep-chart.js';
 import { curveWords, namerOf, pairWords, verdicts, type Namer } from './verdicts.js';
 import { changeWord } from '../output/text/recommend.js';
+import { WORK_LIMITS } from '../usecases/limits.js';
 import { waitChart } from './wait-chart.js';
 
 export interface ReportMeta {
@@ -98,6 +99,9 @@ function changeList(d: { added: ReadonlyArray<readonly [string, string]>; remove
 }
 
 function graphSection(r: ReportRecord, name: Namer): Markup {
+  if (r.classes.length > WORK_LIMITS.drawnClasses) {
+    return html`<p class="explain">The design has ${r.classes.length} classes, more than the ${WORK_LIMITS.drawnClasses} a readable drawing can hold; the tables of the appendix list every class and compatibility.</p>`;
+  }
   const index = new Map(r.classes.map((c, k) => [c.id, k] as const));
   const rec = r.decision?.recommended;
   const funded = new Set((rec?.added ?? []).map(key));

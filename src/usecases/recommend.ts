@@ -18,6 +18,7 @@ import { changePairs, designFigures, verdictRecord, type DesignFigures, type Ver
 import { instabilityOf } from './instability.js';
 import { finite, pairIds, type InstabilityRecord, type RepairRecord, type PairIds, type RecordBase } from './records.js';
 import { exactWarnings } from './warnings.js';
+import { checkDesignSize } from './limits.js';
 import { LP_DIGITS, num, roundFigure } from '../output/format.js';
 
 export interface ParetoEntry extends DesignFigures {
@@ -130,6 +131,7 @@ export function decisionPart(ctx: ScenarioContext, input: RecommendInput, parts:
 
 export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInput): Promise<RecommendRecord> {
   const p = ctx.problem;
+  checkDesignSize(p.n, p.toggles.length, 'recommend');
   const todayStability = checkStability(ctx.today);
   const instability = todayStability.stable ? null : await instabilityOf(ctx, certificateWithIds(ctx.today, todayStability.certificate!));
   let rec: Recommendation;

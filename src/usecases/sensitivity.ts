@@ -17,6 +17,7 @@ import { pairRules, recordBase, type ScenarioContext } from './context.js';
 import { instabilityOf } from './instability.js';
 import { byClass, certificateRecord, finite, idsOf, pairIds, type CertificateRecord, type InstabilityRecord, type RepairRecord, type PairIds, type RecordBase, type Reference, type SetRecord } from './records.js';
 import { exactWarnings } from './warnings.js';
+import { checkChangeCount } from './limits.js';
 
 export type ChangeVerdict = 'helps' | 'harmful' | 'no change' | 'worth dropping' | 'raises backlog' | 'breaks stability' | 'makes it stable' | 'still unstable' | 'not evaluated';
 
@@ -163,7 +164,12 @@ function ruleFields(s: ChangeSpec): { rule?: ChangeRule; ruleReason?: string } {
 
 export async function sensitivityUseCase(ctx: ScenarioContext, input: SensitivityInput = {}): Promise<SensitivityRecord> {
   const model = ctx.model;
+  if (input.allPairs) {
+    const n = model.n;
+    checkChangeCount((n * (n + 1)) / 2, n, true); // before listing them
+  }
   const specs = changesOf(ctx, input.allPairs === true);
+  checkChangeCount(specs.length, model.n, input.allPairs === true);
   const unit = ctx.scenario.timeUnit;
   const base = recordBase(ctx, 'sensitivity', exactWarnings(ctx));
   const stability = checkStability(model);
