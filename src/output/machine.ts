@@ -4,7 +4,9 @@
  * JSON: every non-integer number is rounded to the record's supported significant digits
  * (`precision`, default MACHINE_DIGITS); an object holding `mean` and `ci95` (a simulated estimate)
  * is rounded to what its interval supports, and so is a `…Ci95` interval beside a figure. A record
- * never holds NaN or ±Infinity: finding one is a bug (InternalError), never a null with exit 0.
+ * never holds NaN or ±Infinity: finding one is a bug (InternalError). A figure that does not apply
+ * (null in the record: an unstable design has no backlog) is left out of the object, so the JSON
+ * never shows a null figure; the fields that say why (`stable`, `instability`, …) stay.
  *
  * CSV: RFC 4180 quoting by csv-stringify, numbers rounded like JSON, pairs in the ASCII notation.
  */
@@ -32,7 +34,7 @@ function rounded(value: unknown, digits: number, path: string): Json {
     const out: Record<string, Json> = {};
     const est = typeof o['mean'] === 'number' && isInterval(o['ci95']) ? roundEstimate(o['mean'] as number, o['ci95'][0], o['ci95'][1]) : undefined;
     for (const [k, v] of Object.entries(o)) {
-      if (v === undefined) continue;
+      if (v === undefined || v === null) continue;
       const at = path ? `${path}.${k}` : k;
       if (est && k === 'mean') out[k] = est.mean;
       else if (est && k === 'ci95') out[k] = est.ci95;

@@ -19,6 +19,8 @@ export interface CheckRecord extends RecordBase {
   readonly tightSets: SetRecord[];
   /** Per class: how far its rate may grow, the others fixed, before the design turns unstable; null when unbounded (the class is matched with its own kind). */
   readonly headroom: Record<string, number | null> | null;
+  /** Classes whose headroom is unbounded (matched with their own kind). */
+  readonly unboundedHeadroom: string[];
   readonly components: number;
   /** Unstable designs: the certificate and the repairs. */
   readonly instability: InstabilityRecord | null;
@@ -32,7 +34,7 @@ export async function checkUseCase(ctx: ScenarioContext): Promise<CheckRecord> {
   const base = { ...recordBase(ctx, 'check', [demandNote(ctx)]), reference: ctx.reference, components: r.components.length };
   if (!r.stable) {
     const instability = await instabilityOf(ctx, certificateWithIds(model, r.certificate!));
-    return { ...base, stable: false, bottleneck: null, tightSets: [], headroom: null, instability, repairs: instability.repairs };
+    return { ...base, stable: false, bottleneck: null, tightSets: [], headroom: null, unboundedHeadroom: [], instability, repairs: instability.repairs };
   }
   return {
     ...base,
@@ -40,6 +42,7 @@ export async function checkUseCase(ctx: ScenarioContext): Promise<CheckRecord> {
     bottleneck: r.bottleneck ? setRecord(model, r.bottleneck) : null,
     tightSets: r.tightSets.map((t) => setRecord(model, t)),
     headroom: byClass(model.ids, r.headroom),
+    unboundedHeadroom: model.ids.filter((_, k) => r.headroom[k] === Infinity),
     instability: null,
     repairs: null,
   };
