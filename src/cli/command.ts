@@ -38,10 +38,10 @@ export async function execute<I, R extends { readonly warnings: readonly string[
   if (out.csv && !spec.csv) throw new UsageError('this command has no CSV output; use --json');
   const input = await spec.load(io);
   const record = await spec.run(input, io);
-  for (const w of record.warnings) io.err(`warning: ${w}\n`);
   if (out.json) io.out(spec.json ? spec.json(record, input) : renderJson(record));
   else if (out.csv) io.out(spec.csv!(record, input));
   else io.out(renderDoc(spec.text(record, input), { width: io.columns, wide: out.wide === true }));
+  for (const w of record.warnings) io.err(`warning: ${w}\n`);
   await spec.after?.(record, input, io);
   return spec.exitCode ? spec.exitCode(record, input) : 0;
 }

@@ -27,7 +27,7 @@ function noRepairOf(problem: DesignProblem, r: RepairResult, unit: string): NoRe
   const ids = (set: ArrayLike<number>): string[] => Array.from(set, (k) => problem.ids[k]!);
   if (r.status === 'overloaded') {
     const o = r.overload;
-    const partners = o.partners.slice(0, 3).map((x) => `${problem.ids[x.class]!} (${num(x.rate)}/${unit})`);
+    const partners = o.partners.filter((x) => x.rate > 0).slice(0, 3).map((x) => `${problem.ids[x.class]!} (${num(x.rate)}/${unit})`);
     const within = o.set.length === 1 ? `${problem.ids[o.set[0]!]} matched with itself` : `two classes of ${setText(ids(o.set))} matched with each other, or one matched with itself`;
     const relief =
       `A relief needs capacity beyond ${num(o.deficit)}/${unit}: a compatibility between a class of ${setText(ids(o.set))} and a class that cannot serve it yet` +
