@@ -210,7 +210,11 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
     }
   }
 
-  const warnings = [...(decision?.warnings ?? []), ...(ctx.patience && simulated.length > 0 ? ['Patience: the simulated figures beside the exact ones include items giving up (abandonment); the exact figures do not.'] : [])];
+  // the report says it in its own words: the exact figures ignore patience, the simulated ones beside them do not
+  const patienceNote = ctx.patience
+    ? 'Patience: the exact figures assume every item waits until it is matched; the simulated figures under "Waits per class" include items giving up (abandonment).'
+    : null;
+  const warnings = [...(decision?.warnings ?? []).filter((w) => !/patience/i.test(w)), ...(patienceNote ? [patienceNote] : [])];
   return {
     ...recordBase(ctx, 'report', [...new Set(warnings)]),
     description: ctx.description,
