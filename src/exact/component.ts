@@ -1,4 +1,4 @@
-import { f64Array, H, headerMask, type KernelMemory } from './kernel-layout.js';
+import { A, mask64, setMask64, type KernelMemory } from './kernel-layout.js';
 import type { MaskGraph } from './masks.js';
 import { KERNEL_CHUNK, type SetTrie } from './trie.js';
 
@@ -34,14 +34,14 @@ export function prefixSums(g: MaskGraph, t: SetTrie, psi: Float64Array, tol: num
   const { memory: m, run } = t.kernel;
   const { i32, f64 } = m;
   startWalk(m);
-  i32[H.moment >> 2] = psi1 ? 1 : 0;
-  f64[H.tol >> 3] = tol;
+  i32[A.moment >> 2] = psi1 ? 1 : 0;
+  f64[A.tol >> 3] = tol;
   m.psi[0] = 1;
   m.tail[0] = 0; // Ψ1(∅)
   let status: number;
   while ((status = run.prefix(KERNEL_CHUNK)) === 1);
   if (status < 0) {
-    const { lo, hi } = headerMask(m, H.sat);
+    const { lo, hi } = mask64(m, A.sat);
     throw new SaturatedSet(lo, hi);
   }
   if (psi !== m.psi) psi.set(m.psi);
@@ -51,17 +51,11 @@ export function prefixSums(g: MaskGraph, t: SetTrie, psi: Float64Array, tol: num
 /** Puts ∅ alone on the walk stack (depth 0; both walks start there). */
 function startWalk(m: KernelMemory): void {
   if (!m.current()) throw new Error('internal: a trie was used after a later buildTrie reused its memory');
-  const { i32, f64 } = m;
-  i32[H.depth >> 2] = 0;
-  i32[i32[H.idx >> 2]! >>> 2] = 0;
-  f64[i32[H.r >> 2]! >>> 3] = 0;
-  const w = (slot: number): number => i32[slot >> 2]! >>> 2; // i32 index of an i64 array's element 0
-  for (const slot of [H.smask, H.nmask, H.omask]) {
-    i32[w(slot)] = 0;
-    i32[w(slot) + 1] = 0;
-  }
-  i32[w(H.todo)] = m.node[1]!;
-  i32[w(H.todo) + 1] = m.node[2]!;
+  m.i32[A.depth >> 2] = 0;
+  m.i32[A.idx >> 2] = 0;
+  m.f64[A.r >> 3] = 0;
+  for (const at of [A.smask, A.nmask, A.omask]) setMask64(m, at, 0, 0);
+  setMask64(m, A.todo, m.node[1]!, m.node[2]!);
 }
 
 /**
@@ -106,13 +100,17 @@ export function tailPass(g: MaskGraph, t: SetTrie, psi: Float64Array, tail: Floa
   const rate = g.rate;
   const { memory: m, run } = t.kernel;
   if (psi !== m.psi) m.psi.set(psi);
-  const backlog = f64Array(m, H.backlog, n);
-  const flow = f64Array(m, H.flow, n * n); // flow[i*n + k] / λ_i until the end
+  const backlog = m.f64.subarray(A.backlog >> 3, (A.backlog >> 3) + n);
+  const pstart = m.i32.subarray(A.pstart >> 2, (A.pstart >> 2) + n + 1);
+  const pclass = m.i32.subarray(A.pclass >> 2, (A.pclass >> 2) + pstart[n]!);
+  const pflow = m.f64.subarray(A.pflow >> 3, (A.pflow >> 3) + pstart[n]!);
   m.tail.fill(0);
   backlog.fill(0);
-  flow.fill(0);
+  pflow.fill(0);
   startWalk(m);
   while (run.tail(KERNEL_CHUNK) === 1);
+  const flow = new Float64Array(n * n); // flow[i*n + k] / λ_i until the end
+  for (let k = 0; k < n; k++) for (let t = pstart[k]!; t < pstart[k + 1]!; t++) flow[pclass[t]! * n + k] = pflow[t]!;
   if (tail !== m.tail) tail.set(m.tail);
   const z = m.tail[0]!;
   const out = new Float64Array(n);

@@ -1,5 +1,5 @@
 import { kernels, type Kernels } from './kernel-code.js';
-import { H, kernelMemory, type KernelMemory } from './kernel-layout.js';
+import { A, kernelMemory, type KernelMemory } from './kernel-layout.js';
 import type { MaskGraph } from './masks.js';
 
 /**
@@ -55,13 +55,13 @@ export const KERNEL_CHUNK = 1 << 16;
 export function buildTrie(g: MaskGraph, count: number): SetTrie {
   const memory = kernelMemory(g, count);
   const run = kernels(memory.memory);
-  memory.i32[H.buildS >> 2] = 0;
-  memory.i32[H.buildSize >> 2] = 1; // ∅ is there from the start
+  memory.i32[A.buildS >> 2] = 0;
+  memory.i32[A.buildSize >> 2] = 1; // ∅ is there from the start
   memory.mu[0] = 0;
   memory.tail[0] = 0; // the mask of ∅ (the tail slot holds the masks while building)
   let status: number;
   while ((status = run.build(KERNEL_CHUNK)) === 1);
-  const size = memory.i32[H.buildSize >> 2]!;
+  const size = memory.i32[A.buildSize >> 2]!;
   if (status < 0) throw new Error(`internal: more independent sets than the ${count} counted`);
   if (size !== count) throw new Error(`internal: enumerated ${size} independent sets, counted ${count}`);
   return { count, node: memory.node, mu: memory.mu, kernel: { memory, run } };

@@ -154,6 +154,7 @@ export const f64 = {
   load: load(0x2b, 3),
   store: store(0x39, 3),
   gt: op2(0x64),
+  convert_i32_u: op1(0xb8),
   add: op2(0xa0),
   sub: op2(0xa1),
   mul: op2(0xa2),
