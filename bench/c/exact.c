@@ -21,6 +21,8 @@
 #include <string.h>
 #include <time.h>
 
+#include "design.h"
+
 typedef uint64_t u64;
 
 static int cmp_u64(const void *a, const void *b) {
@@ -82,15 +84,10 @@ static inline int32_t hfind(u64 key) {
 
 int main(int argc, char **argv) {
   if (argc < 2) { fprintf(stderr, "usage: exact FILE\n"); return 1; }
-  FILE *f = fopen(argv[1], "r");
-  if (!f) { perror(argv[1]); return 1; }
   int n, m;
-  if (fscanf(f, "%d %d", &n, &m) != 2) return 1;
-  double *rate = malloc(n * sizeof(double));
-  int *ea = malloc(m * sizeof(int)), *eb = malloc(m * sizeof(int));
-  for (int k = 0; k < n; k++) if (fscanf(f, "%lf", &rate[k]) != 1) return 1;
-  for (int e = 0; e < m; e++) if (fscanf(f, "%d %d", &ea[e], &eb[e]) != 2) return 1;
-  fclose(f);
+  double *rate;
+  int *ea, *eb;
+  if (read_design(argv[1], &n, &m, &rate, &ea, &eb)) return 1;
 
   struct timespec t0, t1;
   clock_gettime(CLOCK_MONOTONIC, &t0);
