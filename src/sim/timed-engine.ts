@@ -6,7 +6,8 @@ import { Queues } from './queues.js';
 import { nextOpenUnit, nextUint32 } from './random.js';
 import { selectPartner } from './select.js';
 import type { SimModel } from './sim-model.js';
-import { timeBin } from './wait-bins.js';
+import { nextExp } from './exponential.js';
+import { fastTimeBin } from './fast-time-bin.js';
 
 const TWO_POW_M32 = 2.3283064365386963e-10;
 
@@ -24,7 +25,11 @@ const TWO_POW_M32 = 2.3283064365386963e-10;
 export class TimedEngine {
   readonly counters: Counters;
   /** Current time. */
-  clock = 0;
+  /** [clock, abandonTotal]: doubles kept in a typed array, so that writing them never allocates. */
+  private readonly time = new Float64Array(2);
+  get clock(): number {
+    return this.time[0]!;
+  }
   arrivalsDone = 0;
   waiting = 0;
   /** Live waiting items per class. */
@@ -32,7 +37,6 @@ export class TimedEngine {
   readonly headVal: Float64Array;
   readonly queues: Queues;
   private readonly rng: Uint32Array;
-  private abandonTotal = 0;
   private events = 0;
 
   constructor(
@@ -67,7 +71,7 @@ export class TimedEngine {
 
   /**
    * Every policy through selectPartner. The order of the random draws, which the FCFM loop below
-   * keeps too: per event a 32-bit draw for the holding time −ln(u)/(Λ + A), then, when A > 0, one
+   * keeps too: per event the holding time Exp(1)/(Λ + A) (exponential.ts), then, when A > 0, one
    * for "abandonment if u·(Λ + A) ≥ Λ"; an abandonment then draws its class and item (see
    * pickAbandoningClass, removeRandomItem), an arrival draws its class (alias table) and, under the
    * random policy with two or more candidates, the partner.
@@ -81,9 +85,9 @@ export class TimedEngine {
     let done = 0;
     while (done < count) {
       if ((++this.events & 0xfff) === 0) this.resyncAbandonRate();
-      const A = this.waiting === 0 ? 0 : this.abandonTotal;
+      const A = this.waiting === 0 ? 0 : this.time[1]!;
       const rate = lambda + A;
-      this.clock += -Math.log(nextOpenUnit(rng)) / rate;
+      this.time[0] += nextExp(rng) / rate;
       const now = this.clock;
       if (A > 0 && nextOpenUnit(rng) * rate >= lambda) {
         this.abandonment(now);
@@ -105,7 +109,7 @@ export class TimedEngine {
         const w = now - born;
         waitedMatched[j]++;
         waitSum[j] += w;
-        hist[j * bins + timeBin(w * lambda)]++;
+        hist[j * bins + fastTimeBin(w * lambda)]++;
       }
     }
   }
@@ -142,7 +146,7 @@ export class TimedEngine {
     let gone = queues.gone!;
     let clock = this.clock;
     let waiting = this.waiting;
-    let total = this.abandonTotal;
+    let total = this.time[1]!;
     let events = this.events;
     let done = 0;
     try {
@@ -150,18 +154,18 @@ export class TimedEngine {
         if ((++events & 0xfff) === 0) {
           this.waiting = waiting;
           this.resyncAbandonRate();
-          total = this.abandonTotal;
+          total = this.time[1]!;
         }
         const A = waiting === 0 ? 0 : total;
         const rate = lambda + A;
-        const now = (clock += -Math.log((nextUint32(rng) + 0.5) * TWO_POW_M32) / rate);
+        const now = (clock += nextExp(rng) / rate);
         if (A > 0 && (nextUint32(rng) + 0.5) * TWO_POW_M32 * rate >= lambda) {
-          this.clock = clock;
+          this.time[0] = clock;
           this.waiting = waiting;
-          this.abandonTotal = total;
+          this.time[1] = total;
           const k = this.abandonment(now);
           waiting = this.waiting;
-          total = this.abandonTotal;
+          total = this.time[1]!;
           if (k >= 0 && counts[k] === 0) busy &= ~(1 << k);
           continue;
         }
@@ -230,13 +234,13 @@ export class TimedEngine {
         const w = now - bt;
         waitedMatched[j]++;
         waitSum[j] += w;
-        hist[j * bins + timeBin(w * lambda)]++;
+        hist[j * bins + fastTimeBin(w * lambda)]++;
       }
     } finally {
       this.arrivalsDone += done;
-      this.clock = clock;
+      this.time[0] = clock;
       this.waiting = waiting;
-      this.abandonTotal = total;
+      this.time[1] = total;
       this.events = events;
     }
   }
@@ -260,7 +264,7 @@ export class TimedEngine {
   private resyncAbandonRate(): void {
     let a = 0;
     for (let k = 0; k < this.model.n; k++) a += this.model.abandonRate[k]! * this.counts[k]!;
-    this.abandonTotal = a;
+    this.time[1] = a;
   }
 
   private pickAbandoningClass(): number {
@@ -284,7 +288,7 @@ export class TimedEngine {
     const counters = this.counters;
     counters.area[k] += this.counts[k]! * (now - counters.last[k]!);
     counters.last[k] = now;
-    this.abandonTotal += (c - this.counts[k]!) * this.model.abandonRate[k]!;
+    this.time[1] += (c - this.counts[k]!) * this.model.abandonRate[k]!;
     this.waiting += c - this.counts[k]!;
     this.counts[k] = c;
   }
