@@ -12,8 +12,11 @@ import { nextUint32, type RandomState } from './random.js';
 const R = 7.69711747013104972;
 const V = 3.949659822581572e-3;
 const M = 2 ** 24;
-const k = new Float64Array(256); // accept at once when j < k[i]
-const w = new Float64Array(256); // x = j · w[i]
+/** Accept at once when j < ZIG_K[i], and return j · ZIG_W[i] (hot loops inline this fast path). */
+export const ZIG_K = new Float64Array(256);
+export const ZIG_W = new Float64Array(256);
+const k = ZIG_K;
+const w = ZIG_W;
 const f = new Float64Array(256); // e^−x at the layer's outer edge
 {
   let de = R;
@@ -38,7 +41,14 @@ const TWO_POW_M32 = 2.3283064365386963e-10;
 
 /** One Exp(1) variate from the stream (one 32-bit draw on the fast path, more on rare rejections). */
 export function nextExp(s: RandomState): number {
-  let u = nextUint32(s);
+  const u = nextUint32(s);
+  const j = u >>> 8;
+  return j < k[u & 255]! ? j * w[u & 255]! : expBeyond(s, u);
+}
+
+/** The rest of nextExp when the first draw u is not accepted at once. */
+export function expBeyond(s: RandomState, first: number): number {
+  let u = first;
   for (;;) {
     const i = u & 255;
     const j = u >>> 8;

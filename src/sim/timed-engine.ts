@@ -6,7 +6,7 @@ import { Queues } from './queues.js';
 import { nextOpenUnit, nextUint32 } from './random.js';
 import { selectPartner } from './select.js';
 import type { SimModel } from './sim-model.js';
-import { nextExp } from './exponential.js';
+import { expBeyond, nextExp, ZIG_K, ZIG_W } from './exponential.js';
 import { fastTimeBin } from './fast-time-bin.js';
 
 const TWO_POW_M32 = 2.3283064365386963e-10;
@@ -158,12 +158,15 @@ export class TimedEngine {
         }
         const A = waiting === 0 ? 0 : total;
         const rate = lambda + A;
-        const now = (clock += nextExp(rng) / rate);
+        // nextExp (exponential.ts) with its fast path inlined
+        const ue = nextUint32(rng);
+        const je = ue >>> 8;
+        const now = (clock += (je < ZIG_K[ue & 255]! ? je * ZIG_W[ue & 255]! : expBeyond(rng, ue)) / rate);
         if (A > 0 && (nextUint32(rng) + 0.5) * TWO_POW_M32 * rate >= lambda) {
           this.time[0] = clock;
           this.waiting = waiting;
           this.time[1] = total;
-          const k = this.abandonment(now);
+          const k = this.abandonment(now, busy);
           waiting = this.waiting;
           total = this.time[1]!;
           if (k >= 0 && counts[k] === 0) busy &= ~(1 << k);
@@ -249,9 +252,12 @@ export class TimedEngine {
     return waitingCapError(this.maxWaiting, this.counts, this.model.ids, `after ${this.arrivalsDone.toLocaleString('en-US')} arrivals`);
   }
 
-  /** An abandonment at `now`: class by weight γ_k n_k, then a uniform live item of it; the class, or −1 (only rounding was left in A). */
-  private abandonment(now: number): number {
-    const k = this.pickAbandoningClass();
+  /**
+   * An abandonment at `now`: class by weight γ_k n_k, then a uniform live item of it; the class, or
+   * −1 (only rounding was left in A). `busy`: see pickAbandoningClass (−1: every class).
+   */
+  private abandonment(now: number, busy = -1): number {
+    const k = this.pickAbandoningClass(busy);
     if (k < 0) {
       this.resyncAbandonRate();
       return -1;
@@ -267,14 +273,30 @@ export class TimedEngine {
     this.time[1] = a;
   }
 
-  private pickAbandoningClass(): number {
+  /**
+   * The class of an abandonment, by weight γ_k n_k. `busy` (at most 32 classes) lists the classes
+   * that may have items; the others weigh 0, so skipping them changes no sum.
+   */
+  private pickAbandoningClass(busy: number): number {
     const { n, abandonRate } = this.model;
     const counts = this.counts;
+    const masked = n <= 32;
+    let live = n === 32 ? busy : busy & ((1 << n) - 1);
     let total = 0;
-    for (let k = 0; k < n; k++) total += abandonRate[k]! * counts[k]!;
+    for (let x = live, k = 0; masked ? x !== 0 : k < n; k++) {
+      if (masked) {
+        k = 31 - Math.clz32(x & -x);
+        x &= x - 1;
+      }
+      total += abandonRate[k]! * counts[k]!;
+    }
     let target = nextOpenUnit(this.rng) * total;
     let last = -1;
-    for (let k = 0; k < n; k++) {
+    for (let k = 0; masked ? live !== 0 : k < n; k++) {
+      if (masked) {
+        k = 31 - Math.clz32(live & -live);
+        live &= live - 1;
+      }
       const w = abandonRate[k]! * counts[k]!;
       if (w <= 0) continue;
       last = k;
