@@ -22,12 +22,11 @@ const TWO_POW_M32 = 2.3283064365386963e-10;
  * (Infinity when none), so FCFM is a minimum over the candidate list. Nothing is allocated per
  * arrival.
  *
- * The hot loops count only what cannot be recovered later: arrivals per class, matches per
- * (arriving class, partner class) pair, and the wait K and its bin of each item matched after
+ * The hot loops count only what cannot be recovered later: arrivals that wait, per class; matches
+ * per (arriving class, partner class) pair; and the wait K and its bin of each item matched after
  * waiting. finish() derives the rest exactly (integers throughout, so no rounding):
+ *  - matched at once (class k) = Σ_j pairs(k, j); arrivals = matched at once + those that waited;
  *  - waited-matched items of class j: Σ of its histogram bins K ≥ 1;
- *  - pushes of class k = waited-matched(k) + count at the end − count at the start (queue
- *    conservation), so matched at once = arrivals(k) − pushes(k);
  *  - the integral of the queue length of class k over the window = Σ over its items of their time
  *    in queue inside the window = waitSum(k) + Σ_{waiting at the end} (end − stamp)
  *    − Σ_{waiting at the start} (start − stamp): a matched item that was already waiting at the
@@ -46,10 +45,10 @@ export class ChainEngine {
   readonly headVal: Float64Array;
   readonly queues: Queues;
   private readonly rng: Uint32Array;
-  /** pairs[k·n + j]: arrivals of k that took a waiting j. */
+  /** pairs[k·n + j]: arrivals of k that took a waiting j; pushes[k]: arrivals of k that waited. */
   private readonly pairs: Float64Array;
-  /** Per class at the start of the window: items waiting, and Σ (start − stamp) over them. */
-  private readonly startCount: Float64Array;
+  private readonly pushes: Float64Array;
+  /** Per class at the start of the window: Σ (start − stamp) over the items waiting then. */
   private readonly startAge: Float64Array;
 
   constructor(
@@ -64,7 +63,7 @@ export class ChainEngine {
     this.headVal = new Float64Array(n).fill(Infinity);
     this.counters = newCounters(n, model.m, 'arrivals');
     this.pairs = new Float64Array(n * n);
-    this.startCount = new Float64Array(n);
+    this.pushes = new Float64Array(n);
     this.startAge = new Float64Array(n);
   }
 
@@ -72,8 +71,8 @@ export class ChainEngine {
   startMeasuring(): void {
     resetCounters(this.counters, this.clock);
     this.pairs.fill(0);
+    this.pushes.fill(0);
     for (let k = 0; k < this.model.n; k++) {
-      this.startCount[k] = this.counts[k]!;
       this.startAge[k] = this.ageSum(k, this.clock);
     }
   }
@@ -96,12 +95,19 @@ export class ChainEngine {
       let waited = 0;
       for (let b = 1; b < bins; b++) waited += hist[k * bins + b]!;
       c.waitedMatched[k] = waited;
-      c.immediate[k] = c.arrivals[k]! - (waited + this.counts[k]! - this.startCount[k]!);
+      let immediate = 0;
+      for (let p = nbrStart[k]!; p < nbrStart[k + 1]!; p++) {
+        const x = this.pairs[k * n + nbr[p]!]!;
+        c.edgeMatches[nbrEdge[p]!] += x;
+        immediate += x;
+      }
+      c.immediate[k] += immediate;
+      c.arrivals[k] += immediate + this.pushes[k]!;
       c.area[k] = c.waitSum[k]! + this.ageSum(k, end) - this.startAge[k]!;
       c.last[k] = end;
-      for (let p = nbrStart[k]!; p < nbrStart[k + 1]!; p++) c.edgeMatches[nbrEdge[p]!] += this.pairs[k * n + nbr[p]!]!;
     }
     this.pairs.fill(0);
+    this.pushes.fill(0);
   }
 
   /** Simulates `count` more arrivals. */
@@ -122,7 +128,8 @@ export class ChainEngine {
     const alias = this.model.alias.alias;
     const { counts, headVal, queues, pairs } = this;
     const { head, off, mask, cap } = queues;
-    const { arrivals, waitSum, hist, bins } = this.counters;
+    const { waitSum, hist, bins } = this.counters;
+    const pushes = this.pushes;
     const maxWaiting = this.maxWaiting;
     const scale = n * TWO_POW_M32;
     let buf = queues.buf;
@@ -148,7 +155,6 @@ export class ChainEngine {
         const xf = u * scale;
         let k = xf | 0;
         if (xf - k >= keep[k]!) k = alias[k]!;
-        arrivals[k]++;
         // oldest compatible waiting item
         let bt = Infinity;
         let bp = 0;
@@ -167,6 +173,7 @@ export class ChainEngine {
             buf = queues.buf;
           }
           buf[off[k]! + ((head[k]! + c) & mask[k]!)] = t;
+          pushes[k]++;
           if (c === 0) headVal[k] = t;
           counts[k] = c + 1;
           if (++waiting > maxWaiting) {
@@ -210,7 +217,8 @@ export class ChainEngine {
     for (let k = 0; k < n; k++) for (let p = nbrStart[k]!; p < nbrStart[k + 1]!; p++) candMask[k] |= 1 << nbr[p]!;
     const { counts, headVal, queues, pairs } = this;
     const { head, off, mask, cap } = queues;
-    const { arrivals, waitSum, hist, bins } = this.counters;
+    const { waitSum, hist, bins } = this.counters;
+    const pushes = this.pushes;
     const maxWaiting = this.maxWaiting;
     const scale = n * TWO_POW_M32;
     let buf = queues.buf;
@@ -236,7 +244,6 @@ export class ChainEngine {
         const xf = u * scale;
         let k = xf | 0;
         if (xf - k >= keep[k]!) k = alias[k]!;
-        arrivals[k]++;
         let cand = busy & candMask[k]!;
         if (cand === 0) {
           const c = counts[k]!;
@@ -245,6 +252,7 @@ export class ChainEngine {
             buf = queues.buf;
           }
           buf[off[k]! + ((head[k]! + c) & mask[k]!)] = t;
+          pushes[k]++;
           if (c === 0) {
             headVal[k] = t;
             busy |= 1 << k;
@@ -302,7 +310,8 @@ export class ChainEngine {
     const alias = this.model.alias.alias;
     const { counts, headVal, queues, pairs } = this;
     const { head, off, mask, cap } = queues;
-    const { arrivals, waitSum, hist, bins } = this.counters;
+    const { waitSum, hist, bins } = this.counters;
+    const pushes = this.pushes;
     const maxWaiting = this.maxWaiting;
     const scale = n * TWO_POW_M32;
     let buf = queues.buf;
@@ -326,7 +335,6 @@ export class ChainEngine {
         const xf = u * scale;
         let k = xf | 0;
         if (xf - k >= keep[k]!) k = alias[k]!;
-        arrivals[k]++;
         let bp: number;
         if (policy === 3) {
           // random draws from the stream: hand it the state and take it back
@@ -348,6 +356,7 @@ export class ChainEngine {
             buf = queues.buf;
           }
           buf[off[k]! + ((head[k]! + c) & mask[k]!)] = t;
+          pushes[k]++;
           if (c === 0) headVal[k] = t;
           counts[k] = c + 1;
           if (++waiting > maxWaiting) {
