@@ -43,21 +43,24 @@ const M = (x: number): string => (x / 1e6).toFixed(1);
 const fmtRate = (r: Rate): string => `${M(r.cpu)} M arrivals/s (${M(r.wall)})`;
 const priorityOf = (m: CompiledModel): number[] => Array.from({ length: m.n }, (_, k) => m.n - 1 - k);
 
+/** One measured run of `arrivals`. */
+function timed(engine: { run(n: number): void }, arrivals: number): Rate {
+  const c0 = process.cpuUsage();
+  const t0 = performance.now();
+  engine.run(arrivals);
+  const w = (performance.now() - t0) / 1000;
+  const c = process.cpuUsage(c0);
+  return { cpu: arrivals / ((c.user + c.system) / 1e6), wall: arrivals / w };
+}
+
+const best = (a: Rate, b: Rate): Rate => ({ cpu: Math.max(a.cpu, b.cpu), wall: Math.max(a.wall, b.wall) });
+
 /** Best of `rounds` runs of `arrivals` after a warm-up, for an engine with run(n). */
 function hotLoop(engine: { run(n: number): void }, warmup: number, arrivals: number, rounds: number): Rate {
   engine.run(warmup); // JIT warm-up and a steady state
-  let cpu = 0;
-  let wall = 0;
-  for (let r = 0; r < rounds; r++) {
-    const c0 = process.cpuUsage();
-    const t0 = performance.now();
-    engine.run(arrivals);
-    const w = (performance.now() - t0) / 1000;
-    const c = process.cpuUsage(c0);
-    cpu = Math.max(cpu, arrivals / ((c.user + c.system) / 1e6));
-    wall = Math.max(wall, arrivals / w);
-  }
-  return { cpu, wall };
+  let r: Rate = { cpu: 0, wall: 0 };
+  for (let i = 0; i < rounds; i++) r = best(r, timed(engine, arrivals));
+  return r;
 }
 
 function engineRate(model: CompiledModel, policy: PolicyName, arrivals: number, rounds: number): Rate {
@@ -89,11 +92,12 @@ function againstC(dir: string, designs: Array<[string, CompiledModel]>): void {
     writeFileSync(file, textOf(m));
     let ours: Rate = { cpu: 0, wall: 0 };
     let theirs: Rate = { cpu: 0, wall: 0 };
+    const engine = new ChainEngine(buildSimModel(m), seedState(1), 50_000_000);
+    engine.run(4_000_000); // JIT warm-up and a steady state
     for (let r = 0; r < 3; r++) {
       const out = JSON.parse(timeProcess(c.path, [file, '30000000', '1']).stdout) as { arrivals: number; seconds: number; cpuSeconds: number };
-      theirs = { cpu: Math.max(theirs.cpu, out.arrivals / out.cpuSeconds), wall: Math.max(theirs.wall, out.arrivals / out.seconds) };
-      const e = engineRate(m, 'fcfm', 30_000_000, 1);
-      ours = { cpu: Math.max(ours.cpu, e.cpu), wall: Math.max(ours.wall, e.wall) };
+      theirs = best(theirs, { cpu: out.arrivals / out.cpuSeconds, wall: out.arrivals / out.seconds });
+      ours = best(ours, timed(engine, 30_000_000));
     }
     log(`  ${name.padEnd(22)} edgewise ${fmtRate(ours)}, C ${fmtRate(theirs)}: ×${(ours.cpu / theirs.cpu).toFixed(2)} (×${(ours.wall / theirs.wall).toFixed(2)})  load ${load()}`);
   }
