@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { prefixSums, SaturatedSet, tailPass } from '../../src/exact/component.js';
+import { evaluateExact } from '../../src/exact/evaluate.js';
 import { countIndependentSets } from '../../src/exact/count.js';
 import { maskGraph } from '../../src/exact/masks.js';
 import { buildTrie, KERNEL_CHUNK } from '../../src/exact/trie.js';
@@ -135,5 +136,36 @@ describe('saturation found by the prefix kernel', () => {
     expect(leaves).toBeGreaterThanOrEqual(1); // μ = λ(hub) = 1 <= r = number of leaves
     // increasing mask order: the first saturated set met is the single leaf {l1}
     expect(lo).toBe(2);
+  });
+});
+
+describe('64 classes (the largest component): every mask bit in use', () => {
+  it('relabelling the classes permutes the results and nothing else; flows balance (derived by hand: each class leaves at its arrival rate)', () => {
+    const rng = new Rng(64);
+    const n = 64;
+    const pairs = randomPairs(n, 0.55, () => rng.next(), 0.05);
+    const has = new Set(pairs.map(([x, y]) => x * n + y));
+    for (let k = 1; k < n; k++) if (!has.has((k - 1) * n + k)) pairs.push([k - 1, k]); // connected, each pair once
+    const rates = flowRates(n, pairs, rng);
+    const perm = rng.shuffled([...Array(n).keys()]);
+    const idsOf = (m: number): string[] => Array.from({ length: m }, (_, k) => `c${k}`);
+    const a = evaluateExact(compileGraph(idsOf(n), rates, pairs));
+    const inv = new Array<number>(n);
+    perm.forEach((p, k) => (inv[p] = k));
+    const b = evaluateExact(compileGraph(idsOf(n), perm.map((p) => rates[p]!), pairs.map(([x, y]) => [inv[x]!, inv[y]!] as [number, number])));
+    expect(a.independentSets).toBe(b.independentSets);
+    expect(a.independentSets).toBeGreaterThan(100);
+    for (let k = 0; k < n; k++) {
+      expect(rel(a.backlog[perm[k]!]!, b.backlog[k]!)).toBeLessThan(1e-10);
+      expect(rel(a.immediateMatch[perm[k]!]!, b.immediateMatch[k]!)).toBeLessThan(1e-10);
+    }
+    // Σ over the edges at k of the match rate (a self-loop twice) = λ_k
+    const model = compileGraph(idsOf(n), rates, pairs);
+    const out = new Float64Array(n);
+    for (let e = 0; e < model.m; e++) {
+      out[model.edgeA[e]!] += a.matchRates[e]!;
+      out[model.edgeB[e]!] += a.matchRates[e]!;
+    }
+    for (let k = 0; k < n; k++) expect(rel(out[k]!, rates[k]!)).toBeLessThan(1e-10);
   });
 });
