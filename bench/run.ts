@@ -17,6 +17,9 @@ const scripts = readdirSync(here)
   .filter((f) => only.length === 0 || only.includes(f.replace(/\.ts$/, '')))
   .sort();
 console.log(`edgewise benchmarks — node ${process.version}, ${cpus().length} cores (${cpus()[0]?.model ?? '?'}), ${(totalmem() / 2 ** 30).toFixed(0)} GiB`);
+// the CLI and worker-thread comparisons run the built code
+const build = spawnSync('npm', ['run', '--silent', 'build'], { stdio: 'inherit', cwd: join(here, '..') });
+console.log(build.status === 0 ? 'dist/ built' : 'npm run build failed: the comparisons that run dist/ are skipped');
 let failed = 0;
 for (const f of scripts) {
   console.log(`\n=== ${f} ===`);

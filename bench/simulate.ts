@@ -1,21 +1,22 @@
 /**
- * Simulator speed: arrivals per second on one thread (FCFM on a 25-class odd cycle and on a
- * 10-class dense design, the issue's targets; other policies and the timed engine for reference),
- * end-to-end `simulate()` throughput, and the scaling of parallel replications over worker threads.
+ * Simulator speed: arrivals per second on one thread (FCFM on a 25-class odd cycle and on a 10-class
+ * dense design, against the plain C simulator bench/c/fcfm.c in the same run; other policies and
+ * the timed engine with impatience), and the scaling of `edgewise simulate --jobs 1` against
+ * `--jobs 2` (built CLI).
  *
- * Run alone: npx tsx bench/simulate.ts   (about a minute on an idle 2-core machine)
- * Figures are printed, never asserted.
+ * Run alone: npx tsx bench/simulate.ts   (about two minutes on an idle 2-core machine)
+ * Figures are printed, never asserted. Rates are arrivals per CPU second of the hot loop (wall-clock
+ * rates in brackets): on a shared machine CPU time moves less with the other load.
  */
-import { availableParallelism } from 'node:os';
-import { existsSync } from 'node:fs';
-import { fileURLToPath, pathToFileURL } from 'node:url';
+import { writeFileSync } from 'node:fs';
+import { join } from 'node:path';
 import { compileGraph, type CompiledModel } from '../src/model/compile.js';
 import { ChainEngine } from '../src/sim/chain-engine.js';
 import type { PolicyName } from '../src/sim/policy.js';
 import { seedState } from '../src/sim/random.js';
-import { simulate } from '../src/sim/simulate.js';
-import { buildSimModel } from '../src/sim/sim-model.js';
+import { buildSimModel, type SimModel } from '../src/sim/sim-model.js';
 import { TimedEngine } from '../src/sim/timed-engine.js';
+import { buildC, builtCli, load, median, scratchDir, timeProcess } from './_processes.js';
 
 /** Odd cycle of n classes, equal rates (stable: every independent set has more neighbours than members). */
 function oddCycle(n: number): CompiledModel {
@@ -32,72 +33,134 @@ function dense10(): CompiledModel {
   return compileGraph(ids, ids.map((_, k) => 1 + 0.1 * k), pairs);
 }
 
-const fmtRate = (perSecond: number): string => `${(perSecond / 1e6).toFixed(1)} M arrivals/s`;
+interface Rate {
+  /** Arrivals per CPU second and per wall-clock second. */
+  readonly cpu: number;
+  readonly wall: number;
+}
+
+const M = (x: number): string => (x / 1e6).toFixed(1);
+const fmtRate = (r: Rate): string => `${M(r.cpu)} M arrivals/s (${M(r.wall)})`;
 const priorityOf = (m: CompiledModel): number[] => Array.from({ length: m.n }, (_, k) => m.n - 1 - k);
 
-/** Hot loop only (counters included, no summary): best of `rounds` runs of `arrivals`. */
-function engineRate(model: CompiledModel, policy: PolicyName, arrivals: number, rounds: number): number {
-  const sim = buildSimModel(model, { policy, priority: priorityOf(model) });
-  const engine = new ChainEngine(sim, seedState(1), 50_000_000);
-  engine.run(2_000_000); // JIT warm-up and a steady state
-  let best = 0;
-  for (let r = 0; r < rounds; r++) {
-    const t0 = performance.now();
-    engine.run(arrivals);
-    best = Math.max(best, arrivals / ((performance.now() - t0) / 1000));
-  }
-  return best;
-}
-
-function timedRate(model: CompiledModel, arrivals: number): number {
-  const sim = buildSimModel(model, { patience: Array.from({ length: model.n }, () => 5) });
-  const engine = new TimedEngine(sim, seedState(1), 50_000_000);
-  engine.run(500_000);
+/** One measured run of `arrivals`. */
+function timed(engine: { run(n: number): void }, arrivals: number): Rate {
+  const c0 = process.cpuUsage();
   const t0 = performance.now();
   engine.run(arrivals);
-  return arrivals / ((performance.now() - t0) / 1000);
+  const w = (performance.now() - t0) / 1000;
+  const c = process.cpuUsage(c0);
+  return { cpu: arrivals / ((c.user + c.system) / 1e6), wall: arrivals / w };
 }
 
-export async function runSimulateBench(log: (line: string) => void = (l) => console.log(l)): Promise<void> {
-  const cores = availableParallelism();
+const best = (a: Rate, b: Rate): Rate => ({ cpu: Math.max(a.cpu, b.cpu), wall: Math.max(a.wall, b.wall) });
+
+/** Best of `rounds` runs of `arrivals` after a warm-up, for an engine with run(n). */
+function hotLoop(engine: { run(n: number): void }, warmup: number, arrivals: number, rounds: number): Rate {
+  engine.run(warmup); // JIT warm-up and a steady state
+  let r: Rate = { cpu: 0, wall: 0 };
+  for (let i = 0; i < rounds; i++) r = best(r, timed(engine, arrivals));
+  return r;
+}
+
+function engineRate(model: CompiledModel, policy: PolicyName, arrivals: number, rounds: number): Rate {
+  const sim = buildSimModel(model, { policy, priority: priorityOf(model) });
+  return hotLoop(new ChainEngine(sim, seedState(1), 50_000_000), 2_000_000, arrivals, rounds);
+}
+
+function timedRate(sim: SimModel, arrivals: number, rounds: number): Rate {
+  return hotLoop(new TimedEngine(sim, seedState(1), 50_000_000), 500_000, arrivals, rounds);
+}
+
+const textOf = (m: CompiledModel): string => {
+  const pairs: string[] = [];
+  for (let e = 0; e < m.m; e++) pairs.push(`${m.edgeA[e]} ${m.edgeB[e]}`);
+  return `${m.n} ${m.m}\n${Array.from(m.rates).join(' ')}\n${pairs.join('\n')}\n`;
+};
+
+/** The FCFM hot loop against bench/c/fcfm.c, interleaved rounds, best of each. */
+function againstC(dir: string, designs: Array<[string, CompiledModel]>): void {
+  const c = buildC('fcfm', dir);
+  log(`one thread, FCFM: edgewise's patient engine against the plain C simulator (bench/c/fcfm.c, gcc -O2), best of 3 interleaved rounds × 30,000,000 arrivals; goal ≥ 0.7`);
+  if ('skip' in c) {
+    log(`  C comparison skipped: ${c.skip}`);
+    for (const [name, m] of designs) log(`  ${name.padEnd(22)} ${fmtRate(engineRate(m, 'fcfm', 20_000_000, 3))}`);
+    return;
+  }
+  for (const [name, m] of designs) {
+    const file = join(dir, `${name}.txt`);
+    writeFileSync(file, textOf(m));
+    let ours: Rate = { cpu: 0, wall: 0 };
+    let theirs: Rate = { cpu: 0, wall: 0 };
+    const engine = new ChainEngine(buildSimModel(m), seedState(1), 50_000_000);
+    engine.run(4_000_000); // JIT warm-up and a steady state
+    for (let r = 0; r < 3; r++) {
+      const out = JSON.parse(timeProcess(c.path, [file, '30000000', '1']).stdout) as { arrivals: number; seconds: number; cpuSeconds: number };
+      theirs = best(theirs, { cpu: out.arrivals / out.cpuSeconds, wall: out.arrivals / out.seconds });
+      ours = best(ours, timed(engine, 30_000_000));
+    }
+    log(`  ${name.padEnd(22)} edgewise ${fmtRate(ours)}, C ${fmtRate(theirs)}: ×${(ours.cpu / theirs.cpu).toFixed(2)} (×${(ours.wall / theirs.wall).toFixed(2)})  load ${load()}`);
+  }
+}
+
+/** `edgewise simulate --jobs 1` against `--jobs 2` (built CLI), interleaved, medians. */
+function scaling(dir: string, model: CompiledModel): void {
+  const cli = builtCli();
+  const reps = 8;
+  const arrivals = 8_000_000;
+  log(`\nedgewise simulate (built CLI), FCFM on the odd cycle: ${reps} replications × ${arrivals.toLocaleString('en-US')} arrivals (+10 % warm-up), median of 3 interleaved runs; goal ≥ 1.6 on a free 2-core machine`);
+  if ('skip' in cli) {
+    log(`  skipped: ${cli.skip}`);
+    return;
+  }
+  const file = join(dir, 'cycle.json');
+  writeFileSync(
+    file,
+    JSON.stringify({ name: 'odd cycle', timeUnit: 'minute', classes: model.ids.map((id, k) => ({ id, rate: model.rates[k] })), compatibilities: Array.from({ length: model.m }, (_, e) => [model.ids[model.edgeA[e]!], model.ids[model.edgeB[e]!]]) }),
+  );
+  const args = (jobs: number): string[] => [cli.path, 'simulate', file, '--arrivals', String(arrivals), '--replications', String(reps), '--jobs', String(jobs), '--json'];
+  const one: number[] = [];
+  const two: number[] = [];
+  const loads: string[] = [];
+  for (let r = 0; r < 3; r++) {
+    loads.push(load());
+    one.push(timeProcess(process.execPath, args(1)).wall);
+    two.push(timeProcess(process.execPath, args(2)).wall);
+  }
+  const total = reps * arrivals * 1.1;
+  log(`  --jobs 1 ${median(one).toFixed(2)} s (${M(total / median(one))} M arrivals/s), --jobs 2 ${median(two).toFixed(2)} s (${M(total / median(two))} M/s): speed-up ×${(median(one) / median(two)).toFixed(2)}  (1-minute load average before each round: ${loads.join(', ')})`);
+  log('  (whole processes: Node start-up, worker start-up, the exact FCFM column and the statistics included)');
+}
+
+const log = (line: string): void => console.log(line);
+
+function main(): void {
   const cycle = oddCycle(25);
   const dense = dense10();
-  log(`simulate bench — node ${process.version}, ${cores} core${cores === 1 ? '' : 's'}`);
+  const dir = scratchDir('edgewise-sim-bench-');
+  log(`simulate bench — node ${process.version}`);
   log('');
-  log('one thread, FCFM, patient engine (hot loop, best of 3 × 20,000,000 arrivals); goal ≥ 20 M arrivals/s');
-  log(`  25-class odd cycle     ${fmtRate(engineRate(cycle, 'fcfm', 20_000_000, 3))}`);
-  log(`  10-class dense design  ${fmtRate(engineRate(dense, 'fcfm', 20_000_000, 3))}`);
+  againstC(dir, [
+    ['25-class odd cycle', cycle],
+    ['10-class dense design', dense],
+  ]);
   log('');
   log('one thread, other policies (1 × 10,000,000 arrivals)');
   for (const policy of ['most-waiting', 'ranked', 'random-class'] as const) {
     log(`  ${policy.padEnd(9)} cycle ${fmtRate(engineRate(cycle, policy, 10_000_000, 1))}, dense ${fmtRate(engineRate(dense, policy, 10_000_000, 1))}`);
   }
   log('');
-  log('one thread, timed engine with impatience (every class patience 5; 1 × 5,000,000 arrivals)');
-  log(`  25-class odd cycle     ${fmtRate(timedRate(cycle, 5_000_000))}`);
-  log(`  10-class dense design  ${fmtRate(timedRate(dense, 5_000_000))}`);
-  log('');
-
-  // Prefer the compiled worker (npm install builds dist/); fall back to the TypeScript sources via tsx.
-  const compiled = new URL('../dist/workers/worker.js', import.meta.url);
-  const fromDist = existsSync(fileURLToPath(compiled));
-  const workerUrl = fromDist ? compiled : new URL('./sim-worker.mjs', import.meta.url);
-  const reps = Math.max(4, 2 * cores);
-  const arrivals = 16_000_000;
-  const total = reps * (arrivals + arrivals / 10);
-  log(`simulate() end to end, FCFM on the odd cycle: ${reps} replications × ${arrivals.toLocaleString('en-US')} arrivals (+10 % warm-up), statistics included`);
-  const seconds: number[] = [];
-  for (const jobs of [...new Set([1, 2, cores])]) {
-    const t0 = performance.now();
-    await simulate(cycle, { arrivals, replications: reps, seed: 1, jobs, workerUrl });
-    const s = (performance.now() - t0) / 1000;
-    seconds.push(s);
-    const speedup = seconds[0]! / s;
-    log(`  jobs ${String(jobs).padEnd(3)} ${s.toFixed(2)} s  ${fmtRate(total / s)}  speed-up ×${speedup.toFixed(2)}`);
+  log('one thread, timed engine (best of 2 × 5,000,000 arrivals) against FCFM without impatience; goal ≥ 0.5 with impatience');
+  for (const [name, m] of [['25-class odd cycle', cycle], ['10-class dense design', dense]] as const) {
+    const patient = engineRate(m, 'fcfm', 10_000_000, 2);
+    const impatient = timedRate(buildSimModel(m, { patience: Array.from({ length: m.n }, () => 5) }), 5_000_000, 2);
+    const timedPatient = timedRate(buildSimModel(m), 5_000_000, 2);
+    log(
+      `  ${name.padEnd(22)} every class patience 5: ${fmtRate(impatient)}, ×${(impatient.cpu / patient.cpu).toFixed(2)} of FCFM (${M(patient.cpu)} M/s); ` +
+        `timed without impatience ${fmtRate(timedPatient)}  load ${load()}`,
+    );
   }
-  log(`  (workers run ${fromDist ? 'the compiled dist/workers/worker.js' : 'the TypeScript sources under tsx'}; their start-up is included; other load on the machine lowers the figures)`);
+  scaling(dir, cycle);
 }
 
-if (process.argv[1] && import.meta.url === pathToFileURL(process.argv[1]).href) {
-  await runSimulateBench();
-}
+main();

@@ -1,6 +1,6 @@
 import { waitingCapError } from './cap.js';
 import type { Counters } from './counters.js';
-import { flushAreas, newCounters, resetCounters } from './counters.js';
+import { newCounters, resetCounters } from './counters.js';
 import { Queues } from './queues.js';
 import { selectPartner } from './select.js';
 import type { SimModel } from './sim-model.js';
@@ -21,6 +21,19 @@ const TWO_POW_M32 = 2.3283064365386963e-10;
  * Queues hold arrival indices; headVal[k] is the index of the oldest waiting item of class k
  * (Infinity when none), so FCFM is a minimum over the candidate list. Nothing is allocated per
  * arrival.
+ *
+ * The hot loops count only what cannot be recovered later: arrivals that wait, per class; matches
+ * per (arriving class, partner class) pair; and the wait K and its bin of each item matched after
+ * waiting. finish() derives the rest exactly (integers throughout, so no rounding):
+ *  - matched at once (class k) = Σ_j pairs(k, j); arrivals = matched at once + those that waited;
+ *  - waited-matched items of class j: Σ of its histogram bins K ≥ 1;
+ *  - the integral of the queue length of class k over the window = Σ over its items of their time
+ *    in queue inside the window = waitSum(k) + Σ_{waiting at the end} (end − stamp)
+ *    − Σ_{waiting at the start} (start − stamp): a matched item that was already waiting at the
+ *    start has its wait counted from its arrival, and an item waiting at both ends is counted
+ *    from the start to the end;
+ *  - matches per compatibility from the pair counts.
+ * So the counters are complete after finish() only.
  */
 export class ChainEngine {
   readonly counters: Counters;
@@ -32,27 +45,69 @@ export class ChainEngine {
   readonly headVal: Float64Array;
   readonly queues: Queues;
   private readonly rng: Uint32Array;
+  /** pairs[k·n + j]: arrivals of k that took a waiting j; pushes[k]: arrivals of k that waited. */
+  private readonly pairs: Float64Array;
+  private readonly pushes: Float64Array;
+  /** Per class at the start of the window: Σ (start − stamp) over the items waiting then. */
+  private readonly startAge: Float64Array;
 
   constructor(
     readonly model: SimModel,
     rngState: Uint32Array,
     readonly maxWaiting: number,
   ) {
+    const n = model.n;
     this.rng = Uint32Array.from(rngState);
-    this.queues = new Queues(model.n, false);
+    this.queues = new Queues(n, false);
     this.counts = this.queues.span; // no gone items here: span = count
-    this.headVal = new Float64Array(model.n).fill(Infinity);
-    this.counters = newCounters(model.n, model.m, 'arrivals');
+    this.headVal = new Float64Array(n).fill(Infinity);
+    this.counters = newCounters(n, model.m, 'arrivals');
+    this.pairs = new Float64Array(n * n);
+    this.pushes = new Float64Array(n);
+    this.startAge = new Float64Array(n);
   }
 
   /** Starts the measured window now (after the warm-up). */
   startMeasuring(): void {
     resetCounters(this.counters, this.clock);
+    this.pairs.fill(0);
+    this.pushes.fill(0);
+    for (let k = 0; k < this.model.n; k++) {
+      this.startAge[k] = this.ageSum(k, this.clock);
+    }
   }
 
-  /** Closes the integrals at the current clock (call once at the end). */
+  /** Σ (clock − stamp) over the items of class k waiting now. */
+  private ageSum(k: number, clock: number): number {
+    const { buf, off, head, mask } = this.queues;
+    let sum = 0;
+    for (let i = 0; i < this.counts[k]!; i++) sum += clock - buf[off[k]! + ((head[k]! + i) & mask[k]!)]!;
+    return sum;
+  }
+
+  /** Derives the counters the loops leave out (see the class comment); call once at the end. */
   finish(): void {
-    flushAreas(this.counters, this.counts, this.clock);
+    const { n, nbrStart, nbr, nbrEdge } = this.model;
+    const c = this.counters;
+    const { bins, hist } = c;
+    const end = this.clock;
+    for (let k = 0; k < n; k++) {
+      let waited = 0;
+      for (let b = 1; b < bins; b++) waited += hist[k * bins + b]!;
+      c.waitedMatched[k] = waited;
+      let immediate = 0;
+      for (let p = nbrStart[k]!; p < nbrStart[k + 1]!; p++) {
+        const x = this.pairs[k * n + nbr[p]!]!;
+        c.edgeMatches[nbrEdge[p]!] += x;
+        immediate += x;
+      }
+      c.immediate[k] += immediate;
+      c.arrivals[k] += immediate + this.pushes[k]!;
+      c.area[k] = c.waitSum[k]! + this.ageSum(k, end) - this.startAge[k]!;
+      c.last[k] = end;
+    }
+    this.pairs.fill(0);
+    this.pushes.fill(0);
   }
 
   /** Simulates `count` more arrivals. */
@@ -68,12 +123,13 @@ export class ChainEngine {
   }
 
   private runFcfm(count: number): void {
-    const { n, nbrStart, nbr, nbrEdge } = this.model;
+    const { n, nbrStart, nbr } = this.model;
     const keep = this.model.alias.keep;
     const alias = this.model.alias.alias;
-    const { counts, headVal, queues } = this;
+    const { counts, headVal, queues, pairs } = this;
     const { head, off, mask, cap } = queues;
-    const { arrivals, immediate, waitedMatched, waitSum, area, last, edgeMatches, hist, bins } = this.counters;
+    const { waitSum, hist, bins } = this.counters;
+    const pushes = this.pushes;
     const maxWaiting = this.maxWaiting;
     const scale = n * TWO_POW_M32;
     let buf = queues.buf;
@@ -99,7 +155,6 @@ export class ChainEngine {
         const xf = u * scale;
         let k = xf | 0;
         if (xf - k >= keep[k]!) k = alias[k]!;
-        arrivals[k]++;
         // oldest compatible waiting item
         let bt = Infinity;
         let bp = 0;
@@ -118,9 +173,8 @@ export class ChainEngine {
             buf = queues.buf;
           }
           buf[off[k]! + ((head[k]! + c) & mask[k]!)] = t;
+          pushes[k]++;
           if (c === 0) headVal[k] = t;
-          area[k] += c * (t - last[k]!);
-          last[k] = t;
           counts[k] = c + 1;
           if (++waiting > maxWaiting) {
             t++;
@@ -129,17 +183,13 @@ export class ChainEngine {
         } else {
           const best = nbr[bp]!;
           const c = counts[best]!;
-          area[best] += c * (t - last[best]!);
-          last[best] = t;
           const h = (head[best]! + 1) & mask[best]!;
           head[best] = h;
           counts[best] = c - 1;
           headVal[best] = c > 1 ? buf[off[best]! + h]! : Infinity;
           waiting--;
-          immediate[k]++;
-          edgeMatches[nbrEdge[bp]!]++;
+          pairs[k * n + best]++;
           const K = t - bt;
-          waitedMatched[best]++;
           waitSum[best] += K;
           hist[best * bins + (K < EXACT_ARRIVAL_BINS ? K | 0 : largeArrivalBin(K))]++;
         }
@@ -160,20 +210,15 @@ export class ChainEngine {
    * candidate mask of the arrival, gives the non-empty candidates directly (often none or one).
    */
   private runFcfmMask(count: number): void {
-    const { n, nbrStart, nbr, nbrEdge } = this.model;
+    const { n, nbrStart, nbr } = this.model;
     const keep = this.model.alias.keep;
     const alias = this.model.alias.alias;
     const candMask = new Int32Array(n);
-    const edgeOf = new Int32Array(n * n).fill(-1);
-    for (let k = 0; k < n; k++) {
-      for (let p = nbrStart[k]!; p < nbrStart[k + 1]!; p++) {
-        candMask[k] |= 1 << nbr[p]!;
-        edgeOf[k * n + nbr[p]!] = nbrEdge[p]!;
-      }
-    }
-    const { counts, headVal, queues } = this;
+    for (let k = 0; k < n; k++) for (let p = nbrStart[k]!; p < nbrStart[k + 1]!; p++) candMask[k] |= 1 << nbr[p]!;
+    const { counts, headVal, queues, pairs } = this;
     const { head, off, mask, cap } = queues;
-    const { arrivals, immediate, waitedMatched, waitSum, area, last, edgeMatches, hist, bins } = this.counters;
+    const { waitSum, hist, bins } = this.counters;
+    const pushes = this.pushes;
     const maxWaiting = this.maxWaiting;
     const scale = n * TWO_POW_M32;
     let buf = queues.buf;
@@ -199,7 +244,6 @@ export class ChainEngine {
         const xf = u * scale;
         let k = xf | 0;
         if (xf - k >= keep[k]!) k = alias[k]!;
-        arrivals[k]++;
         let cand = busy & candMask[k]!;
         if (cand === 0) {
           const c = counts[k]!;
@@ -208,12 +252,11 @@ export class ChainEngine {
             buf = queues.buf;
           }
           buf[off[k]! + ((head[k]! + c) & mask[k]!)] = t;
+          pushes[k]++;
           if (c === 0) {
             headVal[k] = t;
             busy |= 1 << k;
           }
-          area[k] += c * (t - last[k]!);
-          last[k] = t;
           counts[k] = c + 1;
           if (++waiting > maxWaiting) {
             t++;
@@ -233,8 +276,6 @@ export class ChainEngine {
             cand &= cand - 1;
           }
           const c = counts[best]!;
-          area[best] += c * (t - last[best]!);
-          last[best] = t;
           const h = (head[best]! + 1) & mask[best]!;
           head[best] = h;
           counts[best] = c - 1;
@@ -244,10 +285,8 @@ export class ChainEngine {
             busy &= ~(1 << best);
           }
           waiting--;
-          immediate[k]++;
-          edgeMatches[edgeOf[k * n + best]!]++;
+          pairs[k * n + best]++;
           const K = t - bt;
-          waitedMatched[best]++;
           waitSum[best] += K;
           hist[best * bins + (K < EXACT_ARRIVAL_BINS ? K | 0 : largeArrivalBin(K))]++;
         }
@@ -266,12 +305,13 @@ export class ChainEngine {
   /** longest, priority and random: the choice is selectPartner's (src/sim/select.ts). */
   private runOther(count: number): void {
     const model = this.model;
-    const { n, nbr, nbrEdge, policy } = model;
+    const { n, nbr, policy } = model;
     const keep = this.model.alias.keep;
     const alias = this.model.alias.alias;
-    const { counts, headVal, queues } = this;
+    const { counts, headVal, queues, pairs } = this;
     const { head, off, mask, cap } = queues;
-    const { arrivals, immediate, waitedMatched, waitSum, area, last, edgeMatches, hist, bins } = this.counters;
+    const { waitSum, hist, bins } = this.counters;
+    const pushes = this.pushes;
     const maxWaiting = this.maxWaiting;
     const scale = n * TWO_POW_M32;
     let buf = queues.buf;
@@ -295,7 +335,6 @@ export class ChainEngine {
         const xf = u * scale;
         let k = xf | 0;
         if (xf - k >= keep[k]!) k = alias[k]!;
-        arrivals[k]++;
         let bp: number;
         if (policy === 3) {
           // random draws from the stream: hand it the state and take it back
@@ -317,9 +356,8 @@ export class ChainEngine {
             buf = queues.buf;
           }
           buf[off[k]! + ((head[k]! + c) & mask[k]!)] = t;
+          pushes[k]++;
           if (c === 0) headVal[k] = t;
-          area[k] += c * (t - last[k]!);
-          last[k] = t;
           counts[k] = c + 1;
           if (++waiting > maxWaiting) {
             t++;
@@ -329,17 +367,13 @@ export class ChainEngine {
           const best = nbr[bp]!;
           const bt = headVal[best]!;
           const c = counts[best]!;
-          area[best] += c * (t - last[best]!);
-          last[best] = t;
           const h = (head[best]! + 1) & mask[best]!;
           head[best] = h;
           counts[best] = c - 1;
           headVal[best] = c > 1 ? buf[off[best]! + h]! : Infinity;
           waiting--;
-          immediate[k]++;
-          edgeMatches[nbrEdge[bp]!]++;
+          pairs[k * n + best]++;
           const K = t - bt;
-          waitedMatched[best]++;
           waitSum[best] += K;
           hist[best * bins + (K < EXACT_ARRIVAL_BINS ? K | 0 : largeArrivalBin(K))]++;
         }

@@ -6,7 +6,10 @@ import { Queues } from './queues.js';
 import { nextOpenUnit, nextUint32 } from './random.js';
 import { selectPartner } from './select.js';
 import type { SimModel } from './sim-model.js';
-import { timeBin } from './wait-bins.js';
+import { expBeyond, nextExp, ZIG_K, ZIG_W } from './exponential.js';
+import { fastTimeBin } from './fast-time-bin.js';
+
+const TWO_POW_M32 = 2.3283064365386963e-10;
 
 /**
  * The timed engine, for impatient classes (and on request for patient ones): a continuous-time
@@ -22,7 +25,11 @@ import { timeBin } from './wait-bins.js';
 export class TimedEngine {
   readonly counters: Counters;
   /** Current time. */
-  clock = 0;
+  /** [clock, abandonTotal]: doubles kept in a typed array, so that writing them never allocates. */
+  private readonly time = new Float64Array(2);
+  get clock(): number {
+    return this.time[0]!;
+  }
   arrivalsDone = 0;
   waiting = 0;
   /** Live waiting items per class. */
@@ -30,7 +37,6 @@ export class TimedEngine {
   readonly headVal: Float64Array;
   readonly queues: Queues;
   private readonly rng: Uint32Array;
-  private abandonTotal = 0;
   private events = 0;
 
   constructor(
@@ -53,29 +59,38 @@ export class TimedEngine {
     flushAreas(this.counters, this.counts, this.clock);
   }
 
-  /** Simulates events until `count` more arrivals have happened (the clock stops at the last one). */
-  run(count: number): void {
+  /**
+   * Simulates events until `count` more arrivals have happened (the clock stops at the last one).
+   * `generic` forces the loop that serves every policy (the tests compare both loops event by event).
+   */
+  run(count: number, generic = false): void {
+    const model = this.model;
+    if (model.policy === 0 && model.n <= 32 && !generic) this.runFcfmMask(count);
+    else this.runAny(count);
+  }
+
+  /**
+   * Every policy through selectPartner. The order of the random draws, which the FCFM loop below
+   * keeps too: per event the holding time Exp(1)/(Λ + A) (exponential.ts), then, when A > 0, one
+   * for "abandonment if u·(Λ + A) ≥ Λ"; an abandonment then draws its class and item (see
+   * pickAbandoningClass, removeRandomItem), an arrival draws its class (alias table) and, under the
+   * random policy with two or more candidates, the partner.
+   */
+  private runAny(count: number): void {
     const model = this.model;
     const { nbr, nbrEdge, alias } = model;
     const lambda = model.totalRate;
     const { counts, headVal, rng, counters } = this;
-    const { arrivals, immediate, waitedMatched, waitSum, edgeMatches, hist, bins, abandoned } = counters;
+    const { arrivals, immediate, waitedMatched, waitSum, edgeMatches, hist, bins } = counters;
     let done = 0;
     while (done < count) {
       if ((++this.events & 0xfff) === 0) this.resyncAbandonRate();
-      const A = this.waiting === 0 ? 0 : this.abandonTotal;
+      const A = this.waiting === 0 ? 0 : this.time[1]!;
       const rate = lambda + A;
-      this.clock += -Math.log(nextOpenUnit(rng)) / rate;
+      this.time[0] += nextExp(rng) / rate;
       const now = this.clock;
       if (A > 0 && nextOpenUnit(rng) * rate >= lambda) {
-        // an abandonment: class by weight γ_k n_k, then a uniform live item of that class
-        const k = this.pickAbandoningClass();
-        if (k < 0) {
-          this.resyncAbandonRate(); // only rounding left in the running sum
-          continue;
-        }
-        this.removeRandomItem(k, now);
-        abandoned[k]++;
+        this.abandonment(now);
         continue;
       }
       done++;
@@ -85,9 +100,7 @@ export class TimedEngine {
       const bp = selectPartner(model, counts, headVal, k, rng);
       if (bp < 0) {
         this.push(k, now);
-        if (this.waiting > this.maxWaiting) {
-          throw waitingCapError(this.maxWaiting, counts, model.ids, `after ${this.arrivalsDone.toLocaleString('en-US')} arrivals`);
-        }
+        if (this.waiting > this.maxWaiting) throw this.capError();
       } else {
         const j = nbr[bp]!;
         const born = this.popHead(j, now);
@@ -96,25 +109,194 @@ export class TimedEngine {
         const w = now - born;
         waitedMatched[j]++;
         waitSum[j] += w;
-        hist[j * bins + timeBin(w * lambda)]++;
+        hist[j * bins + fastTimeBin(w * lambda)]++;
       }
     }
+  }
+
+  /**
+   * FCFM for at most 32 classes, the same events and draws as runAny with the hot path inlined:
+   * the random state in locals, a mask of the classes with live items (intersected with the
+   * arrival's candidates, as in the patient engine), the alias draw and the queue updates in place.
+   * Abandonments (the rarer events) go through the shared methods.
+   */
+  private runFcfmMask(count: number): void {
+    const model = this.model;
+    const { n, nbrStart, nbr, nbrEdge, abandonRate } = model;
+    const keep = model.alias.keep;
+    const alias = model.alias.alias;
+    const lambda = model.totalRate;
+    const candMask = new Int32Array(n);
+    const edgeOf = new Int32Array(n * n);
+    for (let k = 0; k < n; k++) {
+      for (let p = nbrStart[k]!; p < nbrStart[k + 1]!; p++) {
+        candMask[k] |= 1 << nbr[p]!;
+        edgeOf[k * n + nbr[p]!] = nbrEdge[p]!;
+      }
+    }
+    const { counts, headVal, rng, counters, queues } = this;
+    const { arrivals, immediate, waitedMatched, waitSum, edgeMatches, hist, bins, area, last } = counters;
+    const { off, mask, head, span, cap } = queues;
+    const scale = n * TWO_POW_M32;
+    let busy = 0;
+    for (let k = 0; k < n; k++) if (counts[k]! > 0) busy |= 1 << k;
+    // the engine's scalars in locals, written back around the shared methods and at the end
+    const maxWaiting = this.maxWaiting;
+    let buf = queues.buf;
+    let gone = queues.gone!;
+    let clock = this.clock;
+    let waiting = this.waiting;
+    let total = this.time[1]!;
+    let events = this.events;
+    let done = 0;
+    try {
+      while (done < count) {
+        if ((++events & 0xfff) === 0) {
+          this.waiting = waiting;
+          this.resyncAbandonRate();
+          total = this.time[1]!;
+        }
+        const A = waiting === 0 ? 0 : total;
+        const rate = lambda + A;
+        // nextExp (exponential.ts) with its fast path inlined
+        const ue = nextUint32(rng);
+        const je = ue >>> 8;
+        const now = (clock += (je < ZIG_K[ue & 255]! ? je * ZIG_W[ue & 255]! : expBeyond(rng, ue)) / rate);
+        if (A > 0 && (nextUint32(rng) + 0.5) * TWO_POW_M32 * rate >= lambda) {
+          this.time[0] = clock;
+          this.waiting = waiting;
+          this.time[1] = total;
+          const k = this.abandonment(now, busy);
+          waiting = this.waiting;
+          total = this.time[1]!;
+          if (k >= 0 && counts[k] === 0) busy &= ~(1 << k);
+          continue;
+        }
+        done++;
+        const xf = nextUint32(rng) * scale;
+        let k = xf | 0;
+        if (xf - k >= keep[k]!) k = alias[k]!;
+        arrivals[k]++;
+        let cand = busy & candMask[k]!;
+        const c0 = counts[k]!;
+        if (cand === 0) {
+          // wait (push, as in push())
+          const sp = span[k]!;
+          if (sp === cap[k]) {
+            queues.grow(k);
+            buf = queues.buf;
+            gone = queues.gone!;
+          }
+          const p = off[k]! + ((head[k]! + sp) & mask[k]!);
+          buf[p] = now;
+          gone[p] = 0;
+          span[k] = sp + 1;
+          if (c0 === 0) {
+            headVal[k] = now;
+            busy |= 1 << k;
+          }
+          area[k] += c0 * (now - last[k]!);
+          last[k] = now;
+          total += abandonRate[k]!;
+          counts[k] = c0 + 1;
+          if (++waiting > maxWaiting) {
+            this.arrivalsDone += done;
+            this.waiting = waiting;
+            done = 0;
+            throw this.capError();
+          }
+          continue;
+        }
+        let j = 31 - Math.clz32(cand & -cand);
+        let bt = headVal[j]!;
+        cand &= cand - 1;
+        while (cand !== 0) {
+          const i = 31 - Math.clz32(cand & -cand);
+          const h = headVal[i]!;
+          if (h < bt) {
+            bt = h;
+            j = i;
+          }
+          cand &= cand - 1;
+        }
+        // take the oldest live item of j (as in popHead())
+        const hj = (head[j]! + 1) & mask[j]!;
+        head[j] = hj;
+        span[j]--;
+        const cj = counts[j]!;
+        if (cj === 1 || gone[off[j]! + hj] === 1) this.skipGone(j);
+        else headVal[j] = buf[off[j]! + hj]!;
+        area[j] += cj * (now - last[j]!);
+        last[j] = now;
+        total -= abandonRate[j]!;
+        waiting--;
+        counts[j] = cj - 1;
+        if (cj === 1) busy &= ~(1 << j);
+        immediate[k]++;
+        edgeMatches[edgeOf[k * n + j]!]++;
+        const w = now - bt;
+        waitedMatched[j]++;
+        waitSum[j] += w;
+        hist[j * bins + fastTimeBin(w * lambda)]++;
+      }
+    } finally {
+      this.arrivalsDone += done;
+      this.time[0] = clock;
+      this.waiting = waiting;
+      this.time[1] = total;
+      this.events = events;
+    }
+  }
+
+  private capError(): Error {
+    return waitingCapError(this.maxWaiting, this.counts, this.model.ids, `after ${this.arrivalsDone.toLocaleString('en-US')} arrivals`);
+  }
+
+  /**
+   * An abandonment at `now`: class by weight γ_k n_k, then a uniform live item of it; the class, or
+   * −1 (only rounding was left in A). `busy`: see pickAbandoningClass (−1: every class).
+   */
+  private abandonment(now: number, busy = -1): number {
+    const k = this.pickAbandoningClass(busy);
+    if (k < 0) {
+      this.resyncAbandonRate();
+      return -1;
+    }
+    this.removeRandomItem(k, now);
+    this.counters.abandoned[k]++;
+    return k;
   }
 
   private resyncAbandonRate(): void {
     let a = 0;
     for (let k = 0; k < this.model.n; k++) a += this.model.abandonRate[k]! * this.counts[k]!;
-    this.abandonTotal = a;
+    this.time[1] = a;
   }
 
-  private pickAbandoningClass(): number {
+  /**
+   * The class of an abandonment, by weight γ_k n_k. `busy` (at most 32 classes) lists the classes
+   * that may have items; the others weigh 0, so skipping them changes no sum.
+   */
+  private pickAbandoningClass(busy: number): number {
     const { n, abandonRate } = this.model;
     const counts = this.counts;
+    const masked = n <= 32;
+    let live = n === 32 ? busy : busy & ((1 << n) - 1);
     let total = 0;
-    for (let k = 0; k < n; k++) total += abandonRate[k]! * counts[k]!;
+    for (let x = live, k = 0; masked ? x !== 0 : k < n; k++) {
+      if (masked) {
+        k = 31 - Math.clz32(x & -x);
+        x &= x - 1;
+      }
+      total += abandonRate[k]! * counts[k]!;
+    }
     let target = nextOpenUnit(this.rng) * total;
     let last = -1;
-    for (let k = 0; k < n; k++) {
+    for (let k = 0; masked ? live !== 0 : k < n; k++) {
+      if (masked) {
+        k = 31 - Math.clz32(live & -live);
+        live &= live - 1;
+      }
       const w = abandonRate[k]! * counts[k]!;
       if (w <= 0) continue;
       last = k;
@@ -128,7 +310,7 @@ export class TimedEngine {
     const counters = this.counters;
     counters.area[k] += this.counts[k]! * (now - counters.last[k]!);
     counters.last[k] = now;
-    this.abandonTotal += (c - this.counts[k]!) * this.model.abandonRate[k]!;
+    this.time[1] += (c - this.counts[k]!) * this.model.abandonRate[k]!;
     this.waiting += c - this.counts[k]!;
     this.counts[k] = c;
   }
