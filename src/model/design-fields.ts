@@ -6,7 +6,8 @@
  *   a self-loop counting once), `waitTarget` (mean wait must stay ≤ this, time units, > 0) and
  *   `weight` (≥ 0, default 1, used by the weighted objective);
  * - top level: `mustKeep` (compatibilities no design may drop) and `forbidden` (pairs no design may
- *   contain: a candidate is never added, a removable compatibility is always dropped).
+ *   contain: a candidate is never added, a removable compatibility is always dropped); each entry a
+ *   pair `["a", "b"]` or `{"pair": ["a", "b"], "reason": "…"}` (the reason is shown beside the rule).
  *
  * Every problem is reported at once, with its JSON path, as InvalidScenarioError.
  */
@@ -76,8 +77,17 @@ export function readDesignFields(scenario: Scenario, source?: string): DesignFie
       return out;
     }
     const seen = new Map<string, number>();
-    v.forEach((pair: unknown, i: number) => {
+    v.forEach((entry: unknown, i: number) => {
       const p = `${field}[${i}]`;
+      // an entry is a pair, or {pair, reason} with the rule's reason in words
+      const isObject = typeof entry === 'object' && entry !== null && !Array.isArray(entry);
+      const pair = isObject ? (entry as { pair?: unknown }).pair : entry;
+      if (isObject) {
+        const reason = (entry as { reason?: unknown }).reason;
+        const extraKeys = Object.keys(entry as object).filter((k) => k !== 'pair' && k !== 'reason');
+        if (reason !== undefined && typeof reason !== 'string') bad(`${p}.reason`, `must be text, found ${show(reason)}`);
+        if (extraKeys.length > 0) bad(p, `unknown field${extraKeys.length === 1 ? '' : 's'} ${extraKeys.map((k) => `"${k}"`).join(', ')} (an entry is a pair, or {"pair": [a, b], "reason": "…"})`);
+      }
       if (!Array.isArray(pair) || pair.length !== 2 || typeof pair[0] !== 'string' || typeof pair[1] !== 'string') {
         bad(p, `a pair must be two class ids like ["north", "centre"], found ${show(pair)}`);
         return;
