@@ -1,11 +1,13 @@
 /**
  * How every command runs: load (options and files → typed input) → run (the use case → one record)
  * → render (text, JSON or CSV through the output layer) → exit code. Warnings in the record go to
- * standard error as well, so a figure that ignores something the file says is never silent.
+ * standard error as well (wrapped to the text width), so a figure that ignores something the file
+ * says is never silent.
  */
 import { UsageError } from '../errors.js';
 import { renderJson } from '../output/machine.js';
 import { renderDoc, type Block } from '../output/text/doc.js';
+import { wrap } from '../output/text/wrap.js';
 import type { CommandIO } from './io.js';
 
 /** The output switches every command shares. */
@@ -38,7 +40,7 @@ export async function execute<I, R extends { readonly warnings: readonly string[
   if (out.csv && !spec.csv) throw new UsageError('this command has no CSV output; use --json');
   const input = await spec.load(io);
   const record = await spec.run(input, io);
-  for (const w of record.warnings) io.err(`warning: ${w}\n`);
+  for (const w of record.warnings) io.err(`${wrap(`warning: ${w}`, io.columns, '  ').join('\n')}\n`);
   if (out.json) io.out(spec.json ? spec.json(record, input) : renderJson(record));
   else if (out.csv) io.out(spec.csv!(record, input));
   else io.out(renderDoc(spec.text(record, input), { width: io.columns, wide: out.wide === true }));

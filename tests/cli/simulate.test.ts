@@ -124,7 +124,7 @@ describe('edgewise simulate --json', () => {
     expect(r.code).toBe(0);
     const doc = JSON.parse(r.out);
     expect(doc.warnings.some((w: string) => /unstable/.test(w))).toBe(true);
-    for (const w of doc.warnings) expect(r.err).toContain(`warning: ${w}`);
+    for (const w of doc.warnings) expect(flat(r.err)).toContain(flat(`warning: ${w}`)); // wrapped to the width on stderr
     expect(doc.stability.stable).toBe(false);
     expect(doc.stability.certificate.set).toEqual(['east', 'west']);
     expect(doc.stability.certificate.neighbours).toEqual(['station']);

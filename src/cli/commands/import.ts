@@ -2,6 +2,7 @@ import { UsageError } from '../../errors.js';
 import { importScenario } from '../../intake/import-scenario.js';
 import type { Scenario } from '../../model/scenario.js';
 import type { CommandIO } from '../io.js';
+import { wrap } from '../../output/text/wrap.js';
 import { readInputFile } from '../load.js';
 import { prepareOutput, writeFileAtomic } from '../write.js';
 
@@ -45,6 +46,6 @@ export async function importCommand(opts: ImportOptions, io: CommandIO): Promise
     ...(opts.budget === undefined ? {} : { budget: opts.budget }),
   });
   writeFileAtomic(target, `${JSON.stringify(document, null, 2)}\n`);
-  io.out(renderImport(opts.output, scenario));
+  io.out(`${wrap(renderImport(opts.output, scenario).trimEnd(), io.columns, '  ').join('\n')}\n`);
   return 0;
 }

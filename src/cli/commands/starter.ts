@@ -3,6 +3,7 @@ import { join, resolve } from 'node:path';
 import { UsageError } from '../../errors.js';
 import { starterFiles, type StarterFile } from '../../intake/starter.js';
 import type { CommandIO } from '../io.js';
+import { wrap } from '../../output/text/wrap.js';
 import { checkWritableFolder, writeFileAtomic } from '../write.js';
 
 export interface StarterOptions {
@@ -28,6 +29,6 @@ export async function starterCommand(opts: StarterOptions, io: CommandIO): Promi
   }
   checkWritableFolder(dir, opts.dir);
   for (const f of files) writeFileAtomic(join(dir, f.name), f.text, false);
-  io.out(renderStarter(opts.dir, files));
+  io.out(`${renderStarter(opts.dir, files).trimEnd().split('\n').flatMap((line) => wrap(line, io.columns, '  ')).join('\n')}\n`);
   return 0;
 }
