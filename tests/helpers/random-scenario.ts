@@ -28,7 +28,7 @@ export interface RandomScenarioOptions {
   readonly budgetShare?: number;
   /** Long labels (to exercise wrapping). */
   readonly labels?: boolean;
-  /** Class ids: "g<group>-<k>" by default; 'hostile' puts ',', '~', '%', spaces and unicode in them. */
+  /** Class ids: "g<group>-<k>" by default; 'hostile' puts ',', '~', '%', '-', spaces, accents and wide (East Asian) characters in them. */
   readonly ids?: 'plain' | 'hostile';
   /** Make today's design unstable: the last class's rate exceeds what its neighbours can serve. */
   readonly overload?: boolean;
@@ -36,7 +36,7 @@ export interface RandomScenarioOptions {
   readonly demand?: boolean;
 }
 
-const HOSTILE = ['a,b', 'x~y', '50%', 'old town', 'ünïcode', 'tab\there', '-dash-', 'x%2Cy', 'é~,%'];
+const HOSTILE = ['a,b', 'x~y', '50%', 'old town', 'ünïcode', '中文', '-dash-', 'x%2Cy', 'é~,%'];
 
 export interface RandomScenario {
   readonly doc: Record<string, unknown>;
@@ -49,7 +49,7 @@ export function randomScenario(seed: number, o: RandomScenarioOptions): RandomSc
   const ids = Array.from({ length: n }, (_, k) => {
     const g = Math.floor(k / o.perGroup);
     const base = `g${g}-${k % o.perGroup}`;
-    return o.ids === 'hostile' && k % 3 === 0 ? `${HOSTILE[k % HOSTILE.length]}${k}` : base;
+    return o.ids === 'hostile' && k % 3 === 0 ? `${HOSTILE[(k / 3) % HOSTILE.length]}${k}` : base;
   });
   const key = (a: number, b: number): string => (a <= b ? `${a},${b}` : `${b},${a}`);
   const present = new Map<string, [number, number]>();
