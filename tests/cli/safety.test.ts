@@ -7,20 +7,15 @@ import { recommendCommand } from '../../src/cli/commands/recommend.js';
 import { reportCommand } from '../../src/cli/commands/report.js';
 import { writeFileAtomic } from '../../src/cli/write.js';
 import { runCommand, writeScenario } from '../helpers/cli.js';
+import { pitCrews } from '../helpers/k4-minus-edge.js';
 
 // Never lose the user's work: no output over an input, a folder refused before any work, every file
 // written atomically. "Before any work" is shown without timing: the refusal comes even when the
 // scenario (or design file) is broken, so the check ran before anything was read.
 
 const dir = mkdtempSync(join(tmpdir(), 'edgewise-safety-'));
-const scenario = {
-  name: 'pit crews',
-  timeUnit: 'minute',
-  classes: [{ id: 'a', rate: 0.2 }, { id: 'b', rate: 0.2 }, { id: 'c', rate: 0.4 }, { id: 'd', rate: 0.2 }],
-  compatibilities: [['a', 'c'], ['a', 'd'], ['b', 'c'], ['b', 'd'], ['c', 'd']],
-  candidates: [{ pair: ['a', 'b'], cost: 5 }],
-  budget: 10,
-};
+// K4 minus a ↔ b (tests/helpers/k4-minus-edge.ts): today 7/3 items waiting, with a ↔ b 11/6
+const scenario = pitCrews();
 writeScenario(dir, 'f.json', scenario);
 const original = readFileSync(join(dir, 'f.json'));
 writeFileSync(join(dir, 'broken.json'), '{ "classes": [ ');

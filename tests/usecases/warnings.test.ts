@@ -9,6 +9,7 @@ import { reportCommand } from '../../src/cli/commands/report.js';
 import { sensitivityCommand } from '../../src/cli/commands/sensitivity.js';
 import { sweepCommand } from '../../src/cli/commands/sweep.js';
 import { runCommand, writeScenario } from '../helpers/cli.js';
+import { pitCrews } from '../helpers/k4-minus-edge.js';
 import { randomScenario } from '../helpers/random-scenario.js';
 
 // Issue 9: "Patience never silent". evaluate, recommend and report (--json) carry a top-level
@@ -16,14 +17,8 @@ import { randomScenario } from '../helpers/random-scenario.js';
 // patience none does. The warnings are also printed on standard error. Scenarios invented here.
 
 const dir = mkdtempSync(join(tmpdir(), 'edgewise-warnings-'));
-const base = {
-  name: 'pit crews',
-  timeUnit: 'minute',
-  classes: [{ id: 'a', rate: 0.2 }, { id: 'b', rate: 0.2 }, { id: 'c', rate: 0.4 }, { id: 'd', rate: 0.2 }],
-  compatibilities: [['a', 'c'], ['a', 'd'], ['b', 'c'], ['b', 'd'], ['c', 'd']],
-  candidates: [{ pair: ['a', 'b'], cost: 5 }],
-  budget: 10,
-};
+// K4 minus a ↔ b (tests/helpers/k4-minus-edge.ts): today 7/3 items waiting, with a ↔ b 11/6
+const base = pitCrews();
 writeScenario(dir, 'patient.json', base);
 writeScenario(dir, 'impatient.json', { ...base, classes: base.classes.map((c) => (c.id === 'c' ? { ...c, patience: 4 } : c)) });
 const random = randomScenario(5, { groups: 4, perGroup: 4, candidates: 5, patience: true, budgetShare: 0.5 });
