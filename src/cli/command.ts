@@ -6,6 +6,7 @@
 import { UsageError } from '../errors.js';
 import { renderJson } from '../output/machine.js';
 import { renderDoc, type Block } from '../output/text/doc.js';
+import { wrap } from '../output/text/wrap.js';
 import type { CommandIO } from './io.js';
 
 /** The output switches every command shares. */
@@ -41,7 +42,7 @@ export async function execute<I, R extends { readonly warnings: readonly string[
   if (out.json) io.out(spec.json ? spec.json(record, input) : renderJson(record));
   else if (out.csv) io.out(spec.csv!(record, input));
   else io.out(renderDoc(spec.text(record, input), { width: io.columns, wide: out.wide === true }));
-  for (const w of record.warnings) io.err(`warning: ${w}\n`);
+  for (const w of record.warnings) io.err(`${wrap(`warning: ${w}`, io.columns, '  ').join('\n')}\n`);
   await spec.after?.(record, input, io);
   return spec.exitCode ? spec.exitCode(record, input) : 0;
 }

@@ -149,7 +149,7 @@ export function graphSvg(pic: GraphPicture): Markup {
     const st = s[k]!;
     const shape = g.edges[k]!;
     const dash = st.dash ? raw(` stroke-dasharray="${st.dash}"`) : '';
-    const title = `${pic.nodes[e.a]!.label} – ${pic.nodes[e.b]!.label}: ${describeEdge(e, pic.timeUnit)}`;
+    const title = `${pic.nodes[e.a]!.label} ↔ ${pic.nodes[e.b]!.label}: ${describeEdge(e, pic.timeUnit)}`;
     const cls = `edge edge-${e.kind}${e.harmful ? ' edge-harmful' : ''}`;
     if (shape.loop) {
       lines.push(html`<circle class="${cls}" cx="${f1(shape.loop.x)}" cy="${f1(shape.loop.y)}" r="${f1(shape.loop.r)}" fill="none" stroke="${st.stroke}" stroke-width="${f1(st.width)}"${dash}><title>${title}</title></circle>`);

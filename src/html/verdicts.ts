@@ -5,7 +5,7 @@
  */
 import type { ReportRecord } from '../usecases/report.js';
 import type { VerdictRecord } from '../usecases/designs.js';
-import { listWords, money, num, pct, plural, signedPct } from '../output/format.js';
+import { listWords, money, num, pairText, pct, plural, signedPct } from '../output/format.js';
 
 /** Names a class for people. */
 export type Namer = (id: string) => string;
@@ -21,8 +21,9 @@ export function namerOf(r: Pick<ReportRecord, 'classes'>): Namer {
   return (id) => byId.get(id) ?? id;
 }
 
+/** A pair in the one text notation of format.ts: "Old Town ↔ Market", "late shift ↔ late shift". */
 export function pairWords(p: readonly [string, string], name: Namer): string {
-  return p[0] === p[1] ? `${name(p[0])} with itself` : `${name(p[0])} – ${name(p[1])}`;
+  return pairText(p, name);
 }
 
 function changeWords(added: ReadonlyArray<readonly [string, string]>, removed: ReadonlyArray<readonly [string, string]>, name: Namer): string {

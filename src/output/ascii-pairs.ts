@@ -7,15 +7,20 @@
  *
  * Inside an id, the three characters with a meaning here and the percent sign itself are written
  * as percent escapes: '%' → %25, ',' → %2C, '~' → %7E (and control characters as %XX). Every
- * other character, spaces and '-' included, is written as it is. So "old-town~market" names the
+ * other character, spaces and '-' included, is written as it is; only spaces at either end of an
+ * id are written %20, because spaces around an item are ignored when reading. So "old-town~market" names the
  * pair of "old-town" and "market", and an id "a~b" is written "a%7Eb".
  */
 
 const ESCAPE = /[%,~\u0000-\u001f\u007f]/g;
 
-/** One id in the ASCII notation. */
+/** Spaces around an item are ignored when reading (so "a~b, c~d" reads well): only these. */
+const AROUND = /^ +| +$/g;
+const unpad = (s: string): string => s.replace(AROUND, '');
+
+/** One id in the ASCII notation (spaces at either end of an id are written %20, as they would be read away). */
 export function asciiId(id: string): string {
-  return id.replace(ESCAPE, (c) => `%${c.charCodeAt(0).toString(16).toUpperCase().padStart(2, '0')}`);
+  return id.replace(ESCAPE, (c) => `%${c.charCodeAt(0).toString(16).toUpperCase().padStart(2, '0')}`).replace(AROUND, (m) => '%20'.repeat(m.length));
 }
 
 /** One pair: "a~b". */
@@ -44,34 +49,34 @@ export function readAsciiId(text: string): string {
   });
 }
 
-/** "a,b,c" → ids (empty items skipped, surrounding spaces trimmed). */
+/** "a,b,c" → ids (empty items skipped, surrounding spaces ignored). */
 export function readAsciiIds(text: string): string[] {
   return text
     .split(',')
-    .map((s) => s.trim())
+    .map(unpad)
     .filter((s) => s !== '')
     .map(readAsciiId);
 }
 
 /** "a~b" → [a, b]. */
 export function readAsciiPair(text: string): [string, string] {
-  const s = text.trim();
-  const parts = s.split('~');
-  if (parts.length !== 2 || parts[0]!.trim() === '' || parts[1]!.trim() === '') {
+  const s = unpad(text);
+  const parts = s.split('~').map(unpad);
+  if (parts.length !== 2 || parts[0] === '' || parts[1] === '') {
     throw new NotationError(
       parts.length > 2
         ? `"${s}" has more than one '~' (write %7E for a '~' inside an id)`
         : `"${s}" is not a pair: write two class ids joined by '~', like a~b`,
     );
   }
-  return [readAsciiId(parts[0]!.trim()), readAsciiId(parts[1]!.trim())];
+  return [readAsciiId(parts[0]!), readAsciiId(parts[1]!)];
 }
 
 /** "a~b,c~d" → pairs. */
 export function readAsciiPairs(text: string): Array<[string, string]> {
   return text
     .split(',')
-    .map((s) => s.trim())
+    .map(unpad)
     .filter((s) => s !== '')
     .map(readAsciiPair);
 }

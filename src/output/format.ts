@@ -13,7 +13,7 @@ export function num(x: number, digits = 4): string {
   if (!Number.isFinite(x)) return x > 0 ? '∞' : x < 0 ? '−∞' : '—';
   if (x === 0) return '0';
   const a = Math.abs(x);
-  if (a >= 1e9 || a < 1e-4) return x.toExponential(Math.max(1, digits - 3)).replace('-', '−').replace('e+', 'e');
+  if (a >= 1e9 || a < 1e-4) return x.toExponential(Math.max(1, digits - 3)).replace(/-/g, '−').replace('e+', 'e');
   if (a >= 10 ** digits) return Math.round(x).toLocaleString('en-US').replace('-', '−');
   const s = Number(x.toPrecision(digits));
   const out = Math.abs(s) >= 1000 ? s.toLocaleString('en-US', { maximumFractionDigits: 20 }) : String(s);

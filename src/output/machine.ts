@@ -20,6 +20,14 @@ function isInterval(v: unknown): v is [number, number] {
   return Array.isArray(v) && v.length === 2 && typeof v[0] === 'number' && typeof v[1] === 'number';
 }
 
+/** An estimate rounded to its interval; a non-finite mean or end is a bug (InternalError naming where). */
+function estimateAt(mean: number, lo: number, hi: number, path: string): { mean: number; ci95: [number, number] } {
+  for (const [x, what] of [[mean, 'its value'], [lo, 'its interval'], [hi, 'its interval']] as const) {
+    if (!Number.isFinite(x)) throw new InternalError(`an estimate at ${path || 'the top'} has ${x} as ${what}; it should have been a number or null`);
+  }
+  return roundEstimate(mean, lo, hi);
+}
+
 function rounded(value: unknown, digits: number, path: string): Json {
   if (value === null || value === undefined) return null;
   if (typeof value === 'number') {
@@ -32,7 +40,7 @@ function rounded(value: unknown, digits: number, path: string): Json {
   if (typeof value === 'object') {
     const o = value as Record<string, unknown>;
     const out: Record<string, Json> = {};
-    const est = typeof o['mean'] === 'number' && isInterval(o['ci95']) ? roundEstimate(o['mean'] as number, o['ci95'][0], o['ci95'][1]) : undefined;
+    const est = typeof o['mean'] === 'number' && isInterval(o['ci95']) ? estimateAt(o['mean'] as number, o['ci95'][0], o['ci95'][1], path) : undefined;
     for (const [k, v] of Object.entries(o)) {
       if (v === undefined || v === null) continue;
       const at = path ? `${path}.${k}` : k;
@@ -40,10 +48,10 @@ function rounded(value: unknown, digits: number, path: string): Json {
       else if (est && k === 'ci95') out[k] = est.ci95;
       else if (k.endsWith('Ci95') && isInterval(v)) {
         const base = o[k.slice(0, -4)];
-        out[k] = typeof base === 'number' ? roundEstimate(base, v[0], v[1]).ci95 : [roundFigure(v[0], digits), roundFigure(v[1], digits)];
+        out[k] = typeof base === 'number' ? estimateAt(base, v[0], v[1], at).ci95 : (rounded(v, digits, at) as [number, number]);
       } else if (typeof v === 'number' && isInterval(o[`${k}Ci95`])) {
         const ci = o[`${k}Ci95`] as [number, number];
-        out[k] = roundEstimate(v, ci[0], ci[1]).mean;
+        out[k] = estimateAt(v, ci[0], ci[1], at).mean;
       } else out[k] = rounded(v, digits, at);
     }
     return out;

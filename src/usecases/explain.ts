@@ -23,7 +23,7 @@ export function explainEntry(model: CompiledModel, e: SensitivityEntry, bottlene
   else exact = e.beneficial ? (e.delta < 0 ? `exact: beneficial, backlog ${short(e.delta)}` : 'exact: beneficial, same backlog and a saving') : `exact: backlog +${short(e.delta)}`;
   if (bottlenecks.length === 0) return `${exact}; no bottleneck to compare with`;
   const u = perUnit(timeUnit);
-  const named = (b: Bottleneck): string => `the bottleneck ${braces(Array.from(b.set, id))} (slack ${short(b.slack)}${u})`;
+  const named = (b: Bottleneck): string => `the bottleneck ${braces(Array.from(b.set, id))} (spare capacity ${short(b.slack)}${u})`;
   const touched = bottlenecks.find((b) => relationToSet(b, e.a, e.b) === 'touches');
   const joined = bottlenecks.find((b) => relationToSet(b, e.a, e.b) === 'joins-neighbours');
   let cond: string;

@@ -5,7 +5,8 @@ import { pathToFileURL } from 'node:url';
 import { afterAll, beforeAll, describe, expect, it } from 'vitest';
 import { chromium, type BrowserContext, type Page } from 'playwright-core';
 import { parseScenario } from '../../src/model/validate.js';
-import { gatherReport } from '../../src/report/gather-report.js';
+import { scenarioContext } from '../../src/usecases/context.js';
+import { reportUseCase } from '../../src/usecases/report.js';
 import { renderReport } from '../../src/html/report-html.js';
 
 // Opens a generated report in headless Chromium (Debian's package at /usr/bin/chromium, driven by
@@ -37,7 +38,7 @@ describe.skipIf(!run)('report in headless Chromium', () => {
   beforeAll(async () => {
     const file = 'ride-pooling-hub.json';
     const scenario = parseScenario(readFileSync(join(root, 'scenarios', file), 'utf8'), file);
-    const data = await gatherReport(scenario, { source: file });
+    const data = await reportUseCase(scenarioContext(scenario, { source: file }), { jobs: 1, seed: 1 });
     charts = ['chart-graph', 'chart-pareto', 'chart-waits', ...(data.sweep ? ['chart-sweep'] : [])];
     mkdirSync(outDir, { recursive: true });
     const htmlPath = join(outDir, 'report.html');

@@ -67,7 +67,11 @@ describe('edgewise check', () => {
     const { code, out } = await run(write('stable.json', stable), true);
     expect(code).toBe(0);
     const doc = JSON.parse(out);
-    expect(Object.keys(doc).sort()).toEqual(['bottleneck', 'components', 'headroom', 'stable', 'tightSets', 'timeUnit']);
+    expect(Object.keys(doc).sort()).toEqual(['bottleneck', 'classes', 'command', 'components', 'headroom', 'instability', 'reference', 'repairs', 'scenario', 'stable', 'tightSets', 'timeUnit', 'warnings']);
+    expect(doc.command).toBe('check');
+    expect(doc.reference.kind).toBe('today');
+    expect(doc.instability).toBeNull();
+    expect(doc.repairs).toBeNull();
     expect(doc.stable).toBe(true);
     expect(doc.components).toBe(1);
     const { g, ids } = brute(stable);
@@ -75,17 +79,17 @@ describe('edgewise check', () => {
     expect(b.stable).toBe(true);
     // Reference: brute-force min slack over independent sets containing each class; self-looped solo: null (∞).
     ids.forEach((id, k) => {
-      if (id === 'solo') expect(doc.headroom.byClass[id]).toBeNull();
-      else expect(doc.headroom.byClass[id]).toBeCloseTo(b.minSlackWith[k]!, 9);
+      if (id === 'solo') expect(doc.headroom[id]).toBeNull();
+      else expect(doc.headroom[id]).toBeCloseTo(b.minSlackWith[k]!, 9);
     });
-    expect(doc.bottleneck.slack).toBeCloseTo(b.minSlack, 9);
+    expect(doc.bottleneck.spareCapacity).toBeCloseTo(b.minSlack, 9);
     const { nb } = adjacencyMasks(g);
     for (const t of doc.tightSets) {
       const mask = maskOfIds(ids, t.set);
       expect(maskOfIds(ids, t.neighbours)).toBe(maskNeighbours(nb, mask));
       expect(t.demand).toBeCloseTo(maskRate(g, mask), 9);
       expect(t.capacity).toBeCloseTo(maskRate(g, maskNeighbours(nb, mask)), 9);
-      expect(t.slack).toBeCloseTo(t.capacity - t.demand, 9);
+      expect(t.spareCapacity).toBeCloseTo(t.capacity - t.demand, 9);
     }
     expect(doc.tightSets[0]).toEqual(doc.bottleneck);
   });
@@ -97,35 +101,40 @@ describe('edgewise check', () => {
     // Derived by hand: solo is self-looped, so it is in no constraining set; bronze, silver and gold form a
     // triangle, so the independent sets are the singletons: {bronze} N = {silver, gold}: 9 − 6 = 3,
     // {silver}: 10 − 5 = 5, {gold} N = {bronze, silver, solo}: 14 − 4 = 10. Bottleneck {bronze}, slack 3 of 9 (33.3%).
-    expect(out).toMatch(/bottleneck\s*│\s*\{bronze\}/);
+    expect(out).toMatch(/^bottleneck\s+\{bronze\}\s+6\s+\{silver, gold\}\s+9\s+3$/m);
     expect(out).toMatch(/headroom % of rate/);
-    expect(out.trim().split('\n').at(-1)).toBe('stable · bottleneck {bronze}: 3/hour to spare (33.3% of its capacity 9/hour)');
+    expect(out.trim().split('\n').at(-1)).toBe('Stable · bottleneck {bronze}: 3/hour of spare capacity (33.3 % of its capacity 9/hour)');
   });
 
-  it('unstable non-bipartite design: exit 3, certificate sentence on stderr, JSON certificate', async () => {
+  it('unstable non-bipartite design: exit 3, certificate sentence in the text, JSON certificate, no repair without candidates', async () => {
     const file = write('unstable.json', unstable);
     const human = await run(file, false);
     expect(human.code).toBe(3);
-    expect(human.out).toBe('');
+    expect(human.err).toBe('');
     // Derived by hand: night + weekend = 7.5/hour can only be matched with flexible, 7/hour.
-    expect(human.err).toBe('edgewise: unstable: items from night and weekend (7.5/hour) can only be matched with flexible (7.0/hour)\n');
+    expect(human.out).toContain('Unstable: items from night and weekend (7.5/hour) can only be matched with flexible (7.0/hour)');
+    // no candidates at all: no repair, and the overloaded set is named with what would relieve it
+    expect(human.out).toMatch(/No allowed set of candidates makes the design stable/);
     const { code, out } = await run(file, true);
     expect(code).toBe(3);
     const doc = JSON.parse(out);
-    expect(doc).toEqual({ stable: false, timeUnit: 'hour', certificate: { set: ['night', 'weekend'], demand: 7.5, capacity: 7, neighbours: ['flexible'], reason: 'overloaded' } });
+    expect(doc.stable).toBe(false);
+    expect(doc.instability.certificate).toEqual({ set: ['night', 'weekend'], demand: 7.5, capacity: 7, spareCapacity: -0.5, neighbours: ['flexible'], reason: 'overloaded' });
+    expect(doc.repairs).toEqual([]);
+    expect(doc.instability.noRepair.overloaded.set).toEqual(['night', 'weekend']);
     const { g, ids } = brute(unstable);
     expect(enumerate(g).stable).toBe(false);
-    const mask = maskOfIds(ids, doc.certificate.set);
+    const mask = maskOfIds(ids, doc.instability.certificate.set);
     expect(maskRate(g, mask)).toBeGreaterThanOrEqual(maskRate(g, maskNeighbours(adjacencyMasks(g).nb, mask)));
   });
 
   it('bipartite design: exit 3, the heavier side is the certificate', async () => {
-    const { code, out, err } = await run(write('bipartite.json', bipartite), true);
+    const { code, out } = await run(write('bipartite.json', bipartite), true);
     expect(code).toBe(3);
     const doc = JSON.parse(out);
     // Derived by hand: N(south) = {north}, 7 ≥ 5.
-    expect(doc.certificate).toEqual({ set: ['south'], demand: 7, capacity: 5, neighbours: ['north'], reason: 'bipartite' });
-    expect(err).toMatch(/bipartite/);
+    expect(doc.instability.certificate).toEqual({ set: ['south'], demand: 7, capacity: 5, spareCapacity: -2, neighbours: ['north'], reason: 'bipartite' });
+    expect(doc.instability.message).toMatch(/bipartite/);
     expect(enumerate(brute(bipartite).g).stable).toBe(false);
   });
 
@@ -137,9 +146,9 @@ describe('edgewise check', () => {
     const { g, ids } = brute(disconnected);
     const b = enumerate(g);
     expect(b.stable).toBe(true);
-    ids.forEach((id, k) => (id === 'd' ? expect(doc.headroom.byClass.d).toBeNull() : expect(doc.headroom.byClass[id]).toBeCloseTo(b.minSlackWith[k]!, 9)));
-    // Derived by hand: {a}: 7 − 2 = 5, {b}: 6 − 3 = 3, {c}: 5 − 4 = 1 → bottleneck {c}, slack 1.
-    expect(doc.bottleneck).toEqual({ set: ['c'], neighbours: ['a', 'b'], demand: 4, capacity: 5, slack: 1 });
+    ids.forEach((id, k) => (id === 'd' ? expect(doc.headroom.d).toBeNull() : expect(doc.headroom[id]).toBeCloseTo(b.minSlackWith[k]!, 9)));
+    // Derived by hand: {a}: 7 − 2 = 5, {b}: 6 − 3 = 3, {c}: 5 − 4 = 1 → bottleneck {c}, spare capacity 1.
+    expect(doc.bottleneck).toEqual({ set: ['c'], neighbours: ['a', 'b'], demand: 4, capacity: 5, spareCapacity: 1 });
     const human = await run('disconnected.json', false);
     expect(human.out).toMatch(/2 independent components/);
   });

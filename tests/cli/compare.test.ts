@@ -3,7 +3,12 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { beforeAll, describe, expect, it } from 'vitest';
 import { compareCommand, parseBudgets } from '../../src/cli/commands/compare.js';
-import { COMPARE_CSV_HEADER } from '../../src/report/compare-output.js';
+import { COMPARE_CSV_HEADER } from '../../src/output/csv.js';
+import { MACHINE_DIGITS } from '../../src/output/format.js';
+import { expectRounded } from '../helpers/machine.js';
+
+/** JSON and CSV figures are the reference rounded to nine significant digits. */
+const near = (actual: number, expected: number, what = ''): void => expectRounded(actual, expected, MACHINE_DIGITS, what);
 import { runCommand } from '../helpers/cli.js';
 
 // References (derived by hand; steps below):
@@ -20,13 +25,13 @@ import { runCommand } from '../helpers/cli.js';
 //   Z = 1 + 2/7 + 4 + 1/21 = 16/3;
 //   counts: {a}: (1/7)(1 + 1/7) = 8/49 (×2), {c}: 2·3 = 6 (×2), (a,b): (1/42)(2 + 1/7 + 1/3) = 26/441 (×2);
 //   Σ = 16/49 + 12 + 52/441 = 112/9, so L = (112/9)/(16/3) = 7/3.
-//   With a–b added (K4): each class is a geometric queue with ρ_k = λ_k/(1 − λ_k) (ρ = 1/9, 2/3),
+//   With a ↔ b added (K4): each class is a geometric queue with ρ_k = λ_k/(1 − λ_k) (ρ = 1/9, 2/3),
 //   Z = 1 + Σ ρ/(1 − ρ) = 1 + 1/4 + 4 = 21/4, L = (1/Z) Σ ρ/(1 − ρ)² = (4/21)(9/32 + 12) = 131/56 > 7/3:
 //   the addition is harmful, so the best design within any budget is today's.
 // Rates a = b = 0.2, c = 0.4, d = 0.2:
 //   T(a) = T(b) = 0.2/0.4 = 1/2, T(c) = 0.4/0.2 = 2, T(d) = 0.2/0.6 = 1/3, T(a,b) = T(b,a) = (1/2)(0.2/0.2) = 1/2,
 //   Z = 16/3; counts 3/4 (×2), 6, 4/9, and (a,b): (1/2)(1 + 1/2 + 1 + 1 + 1) = 9/4 (×2); Σ = 112/9, L = 7/3.
-//   With a–b added: ρ = 1/4 (×3), 2/3; Z = 1 + 1 + 2 = 4; L = (1/4)(3·4/9 + 6) = 11/6 < 7/3: helpful.
+//   With a ↔ b added: ρ = 1/4 (×3), 2/3; Z = 1 + 1 + 2 = 4; L = (1/4)(3·4/9 + 6) = 11/6 < 7/3: helpful.
 
 const dir = mkdtempSync(join(tmpdir(), 'edgewise-compare-'));
 const pitCrews = (name: string, rates: [number, number, number, number]) => ({
@@ -80,19 +85,19 @@ describe('compare --json', () => {
   it("today's backlog and stability match the hand-derived 7/3", () => {
     for (const c of [j.columns[0], j.columns[1]]) {
       expect(c.stable).toBe(true);
-      expect(c.backlog).toBeCloseTo(7 / 3, 10);
+      near(c.backlog, 7 / 3, 'backlog today');
       expect(c.bottleneck).not.toBeNull();
     }
   });
 
   it('best design within budget: keep today when the candidate is harmful (131/56 > 7/3), add it when it helps (11/6)', () => {
     const [h, g] = j.columns;
-    expect(h.best.added).toEqual([]);
-    expect(h.best.cost).toBe(0);
-    expect(h.best.backlog).toBeCloseTo(7 / 3, 10);
-    expect(g.best.added).toEqual([['a', 'b']]);
-    expect(g.best.cost).toBe(5);
-    expect(g.best.backlog).toBeCloseTo(11 / 6, 10);
+    expect(h.recommended.added).toEqual([]);
+    expect(h.recommended.cost).toBe(0);
+    near(h.recommended.backlog, 7 / 3);
+    expect(g.recommended.added).toEqual([['a', 'b']]);
+    expect(g.recommended.cost).toBe(5);
+    near(g.recommended.backlog, 11 / 6);
   });
 
   it('an unstable scenario gets its certificate and the cheapest fix out of reach of the budget', () => {
@@ -100,19 +105,22 @@ describe('compare --json', () => {
     expect(u.stable).toBe(false);
     expect(u.backlog).toBeNull();
     // the bipartite pair x–y cannot be stable (J. Appl. Probab. 2016); y–y costs 3 > budget 1
-    expect(u.instability).toMatch(/bipartite/);
-    expect(u.best).toBeNull();
+    expect(u.instability.message).toMatch(/bipartite/);
+    expect(u.instability.repairs).toEqual([{ added: [['y', 'y']], cost: 3 }]);
+    expect(u.recommended).toBeNull();
     expect(u.note).toMatch(/budget/);
   });
 
   it('demand variants: worst case of the best design is 131/56 under "rush"; the robust choice is today\'s design (7/3)', () => {
     const d = j.columns[3];
-    expect(d.variants).toEqual([{ name: 'rush', stable: true, backlog: expect.closeTo(7 / 3, 10), maxWait: expect.any(Number) }]);
-    expect(d.best.added).toEqual([['a', 'b']]);
-    expect(d.best.worstCase.backlog).toBeCloseTo(131 / 56, 10);
-    expect(d.best.worstCase.under).toBe('rush');
+    expect(d.variants).toEqual(['rush']);
+    expect(d.underVariants).toEqual([{ variant: 'rush', stable: true, backlog: expect.any(Number), maxWait: expect.any(Number), maxWaitClass: expect.any(String) }]);
+    near(d.underVariants[0].backlog, 7 / 3);
+    expect(d.recommended.added).toEqual([['a', 'b']]);
+    near(d.recommended.worstBacklog, 131 / 56);
+    expect(d.recommended.worstUnder).toBe('rush');
     expect(d.robust.added).toEqual([]);
-    expect(d.robust.worstCase.backlog).toBeCloseTo(7 / 3, 10);
+    near(d.robust.worstBacklog, 7 / 3);
   });
 });
 
@@ -122,8 +130,8 @@ describe('compare --budgets', () => {
     expect(r.code).toBe(0);
     const cols = JSON.parse(r.out).columns;
     expect(cols.map((c: any) => c.budget)).toEqual([0, 10]);
-    expect(cols[0].best.backlog).toBeCloseTo(7 / 3, 10);
-    expect(cols[1].best.backlog).toBeCloseTo(11 / 6, 10);
+    near(cols[0].recommended.backlog, 7 / 3);
+    near(cols[1].recommended.backlog, 11 / 6);
   });
 
   it('gives the same answer whatever the concurrency', async () => {
@@ -148,11 +156,12 @@ describe('compare output formats', () => {
     expect(r.code).toBe(0);
     const lines = r.out.split('\n');
     expect(lines.some((l) => l.includes('harmful.json') && l.includes('helpful.json'))).toBe(true);
-    for (const row of ["today's design", 'bottleneck', 'total backlog', 'worst class wait', 'best design within', 'its cost']) {
+    for (const row of ["today's design", 'bottleneck (spare capacity)', 'total backlog', 'worst class wait', 'recommended design', 'its cost']) {
       expect(r.out).toContain(row);
     }
     expect(r.out).toContain('2.333'); // 7/3
     expect(r.out).toContain('1.833'); // 11/6
+    expect(r.out).toContain('add a ↔ b');
   });
 
   it('--csv: a header and one RFC 4180 line per column (quotes doubled, fields with commas quoted)', async () => {
@@ -163,9 +172,9 @@ describe('compare output formats', () => {
     expect(rows.length).toBe(3);
     expect(rows[1]![1]).toBe('pit crews, "quiet" night');
     const at = (name: string): number => rows[0]!.indexOf(name);
-    expect(Number(rows[1]![at('backlog')])).toBeCloseTo(7 / 3, 10);
-    expect(rows[2]![at('bestAdded')]).toBe('a–b');
-    expect(Number(rows[2]![at('bestBacklog')])).toBeCloseTo(11 / 6, 10);
+    near(Number(rows[1]![at('backlog')]), 7 / 3);
+    expect(rows[2]![at('recommendedAdded')]).toBe('a~b');
+    near(Number(rows[2]![at('recommendedBacklog')]), 11 / 6);
   });
 
   it('refuses --json with --csv and no files (exit 2)', async () => {

@@ -7,6 +7,7 @@ import { compileGraph } from '../../src/model/compile.js';
 import { permutationOracle } from '../helpers/permutation-oracle.js';
 import { isIndependent, neighbourhood, rateOf, toBitGraph } from '../helpers/bitgraph.js';
 import { runCommand, writeScenario } from '../helpers/cli.js';
+import { expectRounded } from '../helpers/machine.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'edgewise-evaluate-'));
 function scenarioFile(name: string, doc: unknown): string {
@@ -41,7 +42,8 @@ describe('evaluate --json', () => {
     expect(r.code).toBe(0);
     expect(r.err).toBe('');
     const j = JSON.parse(r.out);
-    expect(Object.keys(j)).toEqual(expect.arrayContaining(['stable', 'timeUnit', 'independentSets', 'backlog', 'wait', 'immediateMatch', 'emptyProbability', 'matchRates', 'bottleneck']));
+    expect(Object.keys(j)).toEqual(expect.arrayContaining(['command', 'warnings', 'reference', 'stable', 'timeUnit', 'independentSets', 'backlog', 'wait', 'matchedAtOnce', 'emptyProbability', 'matchRates', 'bottleneck']));
+    expect(j.warnings).toEqual([]);
     expect(j.stable).toBe(true);
     expect(j.timeUnit).toBe('hour');
     // Reference: permutation-sum closed form from the product form ("A product form for the general
@@ -50,17 +52,21 @@ describe('evaluate --json', () => {
     const idx = new Map(ids.map((id, k) => [id, k]));
     const model = compileGraph(ids, hub.classes.map((c) => c.rate), hub.compatibilities.map(([a, b]) => [idx.get(a)!, idx.get(b)!] as [number, number]));
     const o = permutationOracle(model);
-    expect(j.backlog.total).toBeCloseTo(o.backlogTotal, 9);
+    // Machine output is rounded to the digits the computation supports (`precision`): each figure is
+    // the oracle's value rounded to that many significant digits.
+    const digits = j.precision;
+    expect(digits).toBe(9); // far from the stability boundary: the default nine digits
+    expectRounded(j.backlog.total, o.backlogTotal, digits, 'backlog.total');
     ids.forEach((id, k) => {
-      expect(j.backlog.byClass[id]).toBeCloseTo(o.backlog[k]!, 9);
-      expect(j.wait.byClass[id]).toBeCloseTo(o.wait[k]!, 9);
-      expect(j.immediateMatch.byClass[id]).toBeCloseTo(o.immediateMatch[k]!, 9);
+      expectRounded(j.backlog.byClass[id], o.backlog[k]!, digits, `backlog ${id}`);
+      expectRounded(j.wait.byClass[id], o.wait[k]!, digits, `wait ${id}`);
+      expectRounded(j.matchedAtOnce.byClass[id], o.immediateMatch[k]!, digits, `matchedAtOnce ${id}`);
     });
-    expect(j.emptyProbability).toBeCloseTo(o.emptyProbability, 9);
+    expectRounded(j.emptyProbability, o.emptyProbability, digits, 'emptyProbability');
     expect(j.matchRates).toHaveLength(hub.compatibilities.length);
     j.matchRates.forEach((e: { pair: [string, string]; rate: number }, i: number) => {
       expect(e.pair).toEqual(hub.compatibilities[i]);
-      expect(e.rate).toBeCloseTo(o.matchRates[i]!, 9);
+      expectRounded(e.rate, o.matchRates[i]!, digits, `match rate ${i}`);
     });
     // Bottleneck: the smallest slack λ(N(I)) − λ(I) over independent self-loop-free sets, by brute force.
     const g = toBitGraph(model);
@@ -69,21 +75,24 @@ describe('evaluate --json', () => {
       if (!isIndependent(g, mask) || mask & g.loopMask) continue;
       best = Math.min(best, rateOf(g, neighbourhood(g, mask)) - rateOf(g, mask));
     }
-    expect(j.bottleneck.slack).toBeCloseTo(best, 9);
+    expect(j.bottleneck.spareCapacity).toBeCloseTo(best, 9);
     expect(j.bottleneck.set).toEqual(['docks']); // derived by hand: {docks} has slack 4.5 − 3 = 1.5, the smallest
     expect(j.independentSets).toBe(o.independentSets);
   });
 
-  it('unstable design: exit 3, certificate on stdout, sentence on stderr', async () => {
+  it('unstable design: exit 3, certificate and message in the JSON', async () => {
     const doc = { ...hub, classes: hub.classes.map((c) => (c.id === 'docks' ? { ...c, rate: 9 } : c)) };
     const r = await run({ file: scenarioFile('unstable.json', doc), json: true });
     expect(r.code).toBe(3);
     const j = JSON.parse(r.out);
     expect(j.stable).toBe(false);
     // {docks} alone: demand 9 ≥ capacity λ(campus) + λ(mall) = 4.5 (derived by hand)
-    expect(j.certificate.demand).toBeGreaterThanOrEqual(j.certificate.capacity);
-    expect(j.certificate.set).toContain('docks');
-    expect(r.err).toMatch(/can only be matched with/);
+    const c = j.instability.certificate;
+    expect(c.demand).toBeGreaterThanOrEqual(c.capacity);
+    expect(c.set).toContain('docks');
+    expect(j.instability.message).toMatch(/can only be matched with/);
+    expect(j.backlog).toBeNull();
+    expect(j.repairs).toEqual([]); // no candidates in the file
   });
 });
 
@@ -92,9 +101,20 @@ describe('evaluate (tables and errors)', () => {
     const r = await run({ file: scenarioFile('hub2.json', hub) });
     expect(r.code).toBe(0);
     for (const id of ['docks', 'campus', 'mall', 'suburb']) expect(r.out).toContain(id);
-    expect(r.out).toMatch(/mean wait \(hour\)/);
-    expect(r.out).toMatch(/suburb ↔ suburb \(same class\)/);
-    expect(r.out).toMatch(/^stable · total backlog [0-9.]+ .* independent sets$/m);
+    // Waits in a readable unit: the hub's waits are minutes (oracle: permutation sums, as above), printed
+    // with four significant digits; the partner shares of a class's matches, a self-match counting two items.
+    const ids = hub.classes.map((c) => c.id);
+    const idx = new Map(ids.map((id, k) => [id, k]));
+    const model = compileGraph(ids, hub.classes.map((c) => c.rate), hub.compatibilities.map(([a, b]) => [idx.get(a)!, idx.get(b)!] as [number, number]));
+    const o = permutationOracle(model);
+    const line = (id: string): string => r.out.split('\n').find((l) => l.startsWith(`${id} `))!;
+    ids.forEach((id, k) => expect(line(id)).toContain(`${Number((o.wait[k]! * 60).toPrecision(4))} min`));
+    const self = 2 * o.matchRates[4]!;
+    const withMall = o.matchRates[3]!;
+    expect(line('suburb')).toContain(`itself ${Math.round((100 * self) / (self + withMall))} %, mall ${Math.round((100 * withMall) / (self + withMall))} %`);
+    expect(r.out).toMatch(/^rate \/hour|class\s+rate \/hour/m);
+    expect(r.out).toContain(`bottleneck {docks} with 1.5/hour of`);
+    expect(r.out.replace(/\n(?!\n)/g, ' ')).toMatch(/Stable · [0-9.]+ items wait on average .* 7 independent sets/);
   });
 
   it('refuses with exit 4 when the independent sets exceed --max-sets', async () => {

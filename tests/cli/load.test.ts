@@ -3,6 +3,7 @@ import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { afterAll, describe, expect, it } from 'vitest';
 import { InvalidScenarioError } from '../../src/errors.js';
+import { exitCodeOf } from '../../src/cli/exit.js';
 import { loadScenario } from '../../src/cli/load.js';
 import { LIMITS } from '../../src/model/limits.js';
 
@@ -22,7 +23,7 @@ describe('loadScenario', () => {
       expect.unreachable();
     } catch (e) {
       expect(e).toBeInstanceOf(InvalidScenarioError);
-      expect((e as InvalidScenarioError).exitCode).toBe(2);
+      expect(exitCodeOf(e)).toBe(2);
       expect((e as Error).message).toMatch(/16,777,217 bytes, more than the limit of 16,777,216 \(16 MiB\)/);
     }
   });

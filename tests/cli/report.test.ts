@@ -7,8 +7,8 @@ import { reportCommand } from '../../src/cli/commands/report.js';
 import { runCommand } from '../helpers/cli.js';
 
 // `edgewise report FILE -o report.html`. Reference values derived by hand (tests/cli/compare.test.ts
-// has the steps): K4 minus the edge a–b with rates 0.2, 0.2, 0.4, 0.2 has mean backlog 7/3, and
-// adding a–b gives K4 with 11/6.
+// has the steps): K4 minus the edge a ↔ b with rates 0.2, 0.2, 0.4, 0.2 has mean backlog 7/3, and
+// adding a ↔ b gives K4 with 11/6.
 
 const dir = mkdtempSync(join(tmpdir(), 'edgewise-report-'));
 writeFileSync(
@@ -31,12 +31,13 @@ describe('report command', () => {
   it('writes one HTML file and says so; the verdicts quote 7/3 → 11/6', async () => {
     const r = await run({ file: 'pit.json', output: 'out.html' });
     expect(r.code).toBe(0);
-    expect(r.out).toMatch(/^wrote out\.html \(\d+ KB\): /);
+    expect(r.out).toMatch(/^wrote out\.html \(\d+ KB\)\n\nToday's design keeps up with demand: /);
     const page = readFileSync(join(dir, 'out.html'), 'utf8');
     const { document } = parseHTML(page);
     expect(document.querySelector('h1')!.textContent).toBe('pit crews & "friends"');
     const verdicts = [...document.querySelectorAll('.verdicts li')].map((li) => li.textContent!);
-    expect(verdicts[1]).toContain('waiting goes from 2.33 to 1.83 items');
+    // four significant digits of 7/3 and 11/6
+    expect(verdicts[1]).toContain('waiting goes from 2.333 to 1.833 items');
   });
 
   it('--budget 0 overrides the scenario: nothing is affordable, keep today', async () => {

@@ -7,6 +7,11 @@ import { compileModel } from '../../src/model/compile.js';
 import { parseScenario } from '../../src/model/validate.js';
 import { permutationOracle } from '../helpers/permutation-oracle.js';
 import { runCommand, writeScenario } from '../helpers/cli.js';
+import { expectRounded } from '../helpers/machine.js';
+import { MACHINE_DIGITS, num } from '../../src/output/format.js';
+
+/** Text with its line breaks turned into spaces (paragraphs wrap to the width). */
+const flat = (s: string): string => s.replace(/\s+/g, ' ');
 
 const dir = mkdtempSync(join(tmpdir(), 'edgewise-simulate-'));
 function scenarioFile(name: string, doc: unknown): string {
@@ -60,7 +65,9 @@ describe('edgewise simulate --json', () => {
     expect(Object.keys(doc.backlog.byClass)).toEqual(['bronze', 'silver', 'gold', 'master']);
     expect(doc.backlog.total.ci95).toHaveLength(2);
     expect(doc.backlog.total.ci95[0]).toBeLessThanOrEqual(doc.backlog.total.mean);
-    for (const key of ['mean', 'ci95', 'p50', 'p90', 'p99', 'p99ci95']) expect(doc.wait.byClass.gold).toHaveProperty(key);
+    for (const key of ['mean', 'ci95', 'p50', 'p90', 'p99', 'p99Ci95']) expect(doc.wait.byClass.gold).toHaveProperty(key);
+    expect(doc.warnings).toEqual([]);
+    expect(doc.reference.kind).toBe('today');
     expect(doc.matchRates.map((m: { pair: string[] }) => m.pair)).toEqual(ladder.compatibilities);
     expect(doc.abandonment.byClass.bronze.rate.mean).toBe(0);
     expect(doc.abandonment.byClass.bronze.patience).toBeNull(); // infinite patience
@@ -73,46 +80,51 @@ describe('edgewise simulate --json', () => {
     const oracle = permutationOracle(compileModel(parseScenario(JSON.stringify(ladder))));
     const doc = JSON.parse((await run({ file: ladderFile, json: true })).out);
     expect(doc.exact.available).toBe(true);
+    // exact figures in JSON are rounded to the record's significant digits
+    const digits = doc.precision ?? MACHINE_DIGITS;
     ladder.classes.forEach((c, k) => {
-      expect(doc.backlog.byClass[c.id].exact).toBeCloseTo(oracle.backlog[k]!, 9);
-      expect(doc.wait.byClass[c.id].exact).toBeCloseTo(oracle.wait[k]!, 9);
-      expect(doc.immediateMatch.byClass[c.id].exact).toBeCloseTo(oracle.immediateMatch[k]!, 9);
+      expectRounded(doc.backlog.byClass[c.id].exact, oracle.backlog[k]!, digits, `backlog ${c.id}`);
+      expectRounded(doc.wait.byClass[c.id].exact, oracle.wait[k]!, digits, `wait ${c.id}`);
+      expectRounded(doc.matchedAtOnce.byClass[c.id].exact, oracle.immediateMatch[k]!, digits, `matched at once ${c.id}`);
     });
-    expect(doc.backlog.total.exact).toBeCloseTo(oracle.backlogTotal, 9);
-    doc.matchRates.forEach((m: { rate: { exact: number } }, e: number) => expect(m.rate.exact).toBeCloseTo(oracle.matchRates[e]!, 9));
+    expectRounded(doc.backlog.total.exact, oracle.backlogTotal, digits, 'backlog total');
+    doc.matchRates.forEach((m: { rate: { exact: number } }, e: number) => expectRounded(m.rate.exact, oracle.matchRates[e]!, digits, `match rate ${e}`));
   });
 
   it('no exact column for other policies, impatient classes, or beyond --max-sets', async () => {
-    const longest = JSON.parse((await run({ file: ladderFile, json: true, policy: 'longest' })).out);
-    expect(longest.exact).toEqual({ available: false, reason: 'exact values exist for FCFM only' });
+    const longest = JSON.parse((await run({ file: ladderFile, json: true, policy: 'most-waiting' })).out);
+    expect(longest.exact).toEqual({ available: false, reason: 'exact values exist for FCFM only', independentSets: null });
     expect(longest.backlog.total.exact).toBeUndefined();
     const impatient = JSON.parse((await run({ file: impatientFile, json: true })).out);
     expect(impatient.exact.available).toBe(false);
     expect(impatient.engine).toBe('timed');
     expect(impatient.abandonment.byClass.master.patience).toBe(3);
     expect(impatient.abandonment.byClass.master.rate.mean).toBeGreaterThan(0);
+    // simulation handles patience: no warning that figures ignore it
+    expect(impatient.warnings.some((w: string) => /patience/.test(w))).toBe(false);
     const tooLarge = JSON.parse((await run({ file: ladderFile, json: true, maxSets: 2 })).out);
     expect(tooLarge.exact.available).toBe(false);
     expect(tooLarge.exact.reason).toMatch(/independent sets/);
   });
 
-  it('priority lists are echoed and matter only where a choice exists', async () => {
+  it('rankings are echoed and matter only where a choice exists', async () => {
     // bronze and gold are compatible, so they never wait together: ranking them changes nothing
-    const a = JSON.parse((await run({ file: ladderFile, json: true, policy: 'priority', priority: 'bronze,gold' })).out);
-    const b = JSON.parse((await run({ file: ladderFile, json: true, policy: 'priority', priority: 'gold,bronze' })).out);
-    expect(a.priority).toEqual(['bronze', 'gold']);
+    const a = JSON.parse((await run({ file: ladderFile, json: true, policy: 'ranked', rank: 'bronze,gold' })).out);
+    const b = JSON.parse((await run({ file: ladderFile, json: true, policy: 'ranked', rank: 'gold,bronze' })).out);
+    expect(a.ranking).toEqual(['bronze', 'gold']);
     expect(b.backlog).toEqual(a.backlog);
     // silver and master can wait together, and a gold arrival must choose between them
-    const c = JSON.parse((await run({ file: ladderFile, json: true, policy: 'priority', priority: 'silver,master' })).out);
-    const d = JSON.parse((await run({ file: ladderFile, json: true, policy: 'priority', priority: 'master,silver' })).out);
+    const c = JSON.parse((await run({ file: ladderFile, json: true, policy: 'ranked', rank: 'silver,master' })).out);
+    const d = JSON.parse((await run({ file: ladderFile, json: true, policy: 'ranked', rank: 'master,silver' })).out);
     expect(c.backlog.byClass.master.mean).not.toBe(d.backlog.byClass.master.mean);
   });
 
-  it('unstable designs: simulated, with the certificate in the JSON and no stderr', async () => {
+  it('unstable designs: simulated, with the certificate in the JSON and the warning in both places', async () => {
     const r = await run({ file: unstableFile, json: true, arrivals: 5_000 });
     expect(r.code).toBe(0);
-    expect(r.err).toBe('');
     const doc = JSON.parse(r.out);
+    expect(doc.warnings.some((w: string) => /unstable/.test(w))).toBe(true);
+    for (const w of doc.warnings) expect(flat(r.err)).toContain(flat(`warning: ${w}`)); // wrapped to the width on stderr
     expect(doc.stability.stable).toBe(false);
     expect(doc.stability.certificate.set).toEqual(['east', 'west']);
     expect(doc.stability.certificate.neighbours).toEqual(['station']);
@@ -125,17 +137,21 @@ describe('edgewise simulate (tables)', () => {
     const r = await run({ file: ladderFile });
     expect(r.code).toBe(0);
     expect(r.err).toBe('');
-    expect(r.out).toContain('Ladder matchmaking (invented): simulated under FCFM');
-    expect(r.out).toMatch(/class\s+│ backlog\s+│ exact/);
-    expect(r.out).toContain('mean wait (minute)');
-    expect(r.out).toContain('master (self)');
-    expect(r.out).toContain('Student t, 3 degrees of freedom');
+    expect(r.out).toContain("Ladder matchmaking (invented): today's design simulated under FCFM");
+    expect(r.out).toMatch(/^class\s+backlog\s+exact\s+mean wait\s+exact/m);
+    // waits of about a minute or less read in seconds (the exact column too): the oracle's gold wait
+    const oracle = permutationOracle(compileModel(parseScenario(JSON.stringify(ladder))));
+    const gold = r.out.split('\n').find((l) => l.startsWith('gold '))!;
+    expect(gold).toContain(`${num(oracle.wait[2]! * 60)} s`);
+    expect(r.out).toMatch(/^master ↔ master\s/m);
+    expect(r.out).toMatch(/matches \/minute/);
+    expect(flat(r.out)).toContain('Student t, 3 degrees of freedom');
   });
 
   it('abandonment columns appear when a class has patience', async () => {
     const r = await run({ file: impatientFile });
     expect(r.out).toContain('abandon /minute');
-    expect(r.out).toContain('No exact column: exact values assume patient items.');
+    expect(flat(r.out)).toContain('No exact column: exact values assume patient items.');
   });
 
   it('warns on stderr about an unstable design, with its certificate', async () => {
@@ -156,12 +172,13 @@ describe('edgewise simulate: errors and exit codes', () => {
 
   it('usage errors exit 2', async () => {
     for (const [opts, message] of [
-      [{ policy: 'priority' }, /needs --priority/],
-      [{ priority: 'gold' }, /only applies with --policy priority/],
-      [{ policy: 'oldest-first' }, /--policy must be one of fcfm, longest, priority, random/],
-      [{ policy: 'priority', priority: 'gold,platinum' }, /unknown class "platinum"/],
-      [{ arrivals: 0 }, /arrivals must be an integer >= 1/],
-      [{ replications: Number.NaN }, /replications must be an integer/],
+      [{ policy: 'ranked' }, /needs --rank/],
+      [{ rank: 'gold' }, /only applies with --policy ranked/],
+      [{ policy: 'oldest-first' }, /--policy must be one of fcfm, most-waiting, ranked, random-class/],
+      [{ policy: 'priority' }, /--policy must be one of/],
+      [{ policy: 'ranked', rank: 'gold,platinum' }, /unknown class "platinum"/],
+      [{ arrivals: 0 }, /--arrivals must be a whole number >= 1/],
+      [{ replications: Number.NaN }, /--replications must be a whole number/],
       [{ maxSets: -3 }, /--max-sets must be a positive integer/],
     ] as const) {
       const r = await run({ file: ladderFile, ...(opts as Partial<SimulateOptions>) });
@@ -173,6 +190,6 @@ describe('edgewise simulate: errors and exit codes', () => {
   it('a missing scenario file exits 2', async () => {
     const r = await run({ file: join(dir, 'nope.json') });
     expect(r.code).toBe(2);
-    expect(r.err).toMatch(/no such file/);
+    expect(r.err).toMatch(/nope\.json: no such scenario file/);
   });
 });

@@ -1,6 +1,8 @@
 import { existsSync, readFileSync } from 'node:fs';
 import { describe, expect, it } from 'vitest';
-import { sensitivity, type SensitivityEntry } from '../../src/design/sensitivity/sensitivity.js';
+import { sensitivity as sensitivityOf, type SensitivityEntry, type SensitivityResult } from '../../src/design/sensitivity/sensitivity.js';
+import { scenarioContext } from '../../src/usecases/context.js';
+import { changesOf } from '../../src/usecases/sensitivity.js';
 import { UnstableDesignError } from '../../src/errors.js';
 import { evaluateExact } from '../../src/exact/evaluate.js';
 import { compileGraph, compileModel, edgePairs, type CompiledModel } from '../../src/model/compile.js';
@@ -23,6 +25,14 @@ function k4Scenario(rates: readonly number[]): Scenario {
       candidates: [{ pair: ['a', 'b'], cost: 5 }],
     }),
   );
+}
+
+/**
+ * The design layer's sensitivity of a scenario's design, with the changes (and the rules that allow
+ * them) built by the use case from the scenario, as `edgewise sensitivity` does.
+ */
+function sensitivity(sc: Scenario, model: CompiledModel, o: { allPairs?: boolean } = {}): SensitivityResult {
+  return sensitivityOf(model, changesOf(scenarioContext(sc, { source: 'test' }), o.allPairs === true));
 }
 
 const rel = (x: number, y: number): number => Math.abs(x - y) / Math.max(Math.abs(x), Math.abs(y));
@@ -198,13 +208,14 @@ describe('every sensitivity entry equals a fresh exact evaluation (seeded random
     expect(joins).toBeGreaterThan(0);
   });
 
-  it('sorted by backlog change per unit of money, unpriced pairs after priced ones', () => {
+  it('allowed changes first, each group sorted by backlog change per unit of money, unpriced pairs after priced ones', () => {
     const rng = new Rng(99);
     for (let d = 0; d < 6; d++) {
       const sc = scenarioOf(toModel(randomStableDesign(rng, { minClasses: 4, maxClasses: 8, edgeProb: 0.4, loopProb: 0.2, components: 1, minSlack: 0 })), rng);
       const r = sensitivity(sc, compileModel(sc), { allPairs: true });
       for (const list of [r.additions, r.removals]) {
-        const key = (e: SensitivityEntry): [number, number] => [e.price === undefined ? 1 : 0, e.price === undefined ? e.delta : e.perUnit!];
+        // changes the rules allow first (here, non-removable compatibilities are 'fixed'), then by money
+        const key = (e: SensitivityEntry): [number, number] => [(e.allowed ? 0 : 2) + (e.price === undefined ? 1 : 0), e.price === undefined ? e.delta : e.perUnit!];
         for (let i = 1; i < list.length; i++) {
           const [ta, ka] = key(list[i - 1]!);
           const [tb, kb] = key(list[i]!);
@@ -251,7 +262,7 @@ describe('scenarios/harmful-candidate.json (invented co-op quest party finder)',
     }
   });
 
-  it('healer–tank joins two neighbours of the bottleneck {archer, mage}: harmful, and predicted', () => {
+  it('healer ↔ tank joins two neighbours of the bottleneck {archer, mage}: harmful, and predicted', () => {
     // bottleneck by hand: {archer, mage} demands 2.5 + 3.2 = 5.7 against healer + tank = 6.0 (slack 0.3);
     // {tank} has slack 5.7 − 4.5 = 1.2, {archer} 6.0 − 2.5, {mage} 6.0 − 3.2 (healer is self-looped)
     expect(r.base.bottlenecks).toHaveLength(1);
@@ -263,7 +274,7 @@ describe('scenarios/harmful-candidate.json (invented co-op quest party finder)',
     expect(e.predicted).toBe(true);
   });
 
-  it('archer–mage touches the bottleneck: helps, no harm predicted; it ranks first', () => {
+  it('archer ↔ mage touches the bottleneck: helps, no harm predicted; it ranks first', () => {
     const e = find(r.additions, 'archer', 'mage');
     expect(e.harmful).toBe(false);
     expect(e.delta).toBeLessThan(0);
@@ -272,7 +283,7 @@ describe('scenarios/harmful-candidate.json (invented co-op quest party finder)',
     expect(r.additions[0]).toBe(e);
   });
 
-  it('removing tank–archer breaks stability: {tank, archer} (7.0) against {healer, mage} (4.7), by hand', () => {
+  it('removing tank ↔ archer breaks stability: {tank, archer} (7.0) against {healer, mage} (4.7), by hand', () => {
     const e = find(r.removals, 'tank', 'archer');
     expect(e.stable).toBe(false);
     expect([...e.certificate!.set].sort()).toEqual(['archer', 'tank']);

@@ -72,3 +72,18 @@ export const K4_MINUS_AB_PAIRS: Array<[number, number]> = [
   [1, 3],
   [2, 3],
 ];
+
+/**
+ * The family as an invented scenario file ("pit crews"): classes a, b, c, d with `rates`, today's
+ * compatibilities K4 minus {a, b}, the candidate {a, b} at cost 5, a budget of 10.
+ */
+export function pitCrews(rates: readonly number[] = [0.2, 0.2, 0.4, 0.2], timeUnit = 'minute') {
+  return {
+    name: 'pit crews',
+    timeUnit,
+    classes: K4_IDS.map((id, k) => ({ id, rate: rates[k]! })),
+    compatibilities: K4_MINUS_AB_PAIRS.map(([x, y]) => [K4_IDS[x]!, K4_IDS[y]!] as [string, string]),
+    candidates: [{ pair: ['a', 'b'] as [string, string], cost: 5 }],
+    budget: 10,
+  };
+}

@@ -73,7 +73,7 @@ describe('graphSvg', () => {
       const el = [...svg.querySelectorAll('.edge-today')].find((e) => e.querySelector('title')!.textContent!.startsWith(title))!;
       return Number(el.getAttribute('stroke-width'));
     };
-    expect(width('Pro & "co" – Ghost')).toBeGreaterThan(width('Rookie <b> – Pro'));
+    expect(width('Pro & "co" ↔ Ghost')).toBeGreaterThan(width('Rookie <b> ↔ Pro'));
   });
 
   it('harmful candidates have their own dash pattern, colour and the word "harmful" (not colour alone)', () => {

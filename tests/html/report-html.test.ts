@@ -2,13 +2,15 @@ import { readFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { parseHTML } from 'linkedom';
 import { beforeAll, describe, expect, it } from 'vitest';
-import { compileGraph, compileModel } from '../../src/model/compile.js';
+import { compileModel } from '../../src/model/compile.js';
 import { parseScenario } from '../../src/model/validate.js';
 import { pairKey, type Scenario } from '../../src/model/scenario.js';
-import { gatherReport } from '../../src/report/gather-report.js';
-import type { ReportData } from '../../src/report/report-data.js';
+import { scenarioContext } from '../../src/usecases/context.js';
+import { reportUseCase, type ReportRecord } from '../../src/usecases/report.js';
 import { renderReport } from '../../src/html/report-html.js';
+import { num, pct } from '../../src/output/format.js';
 import { permutationOracle } from '../helpers/permutation-oracle.js';
+import { scenarioDesign, type Pair } from '../helpers/scenario-design.js';
 
 // The whole report on a shipped scenario and on a hostile one. Numbers are checked against the
 // permutation-sum closed form of the product form ("A product form for the general stochastic
@@ -19,13 +21,20 @@ const root = join(import.meta.dirname, '..', '..');
 const load = (f: string): Scenario => parseScenario(readFileSync(join(root, 'scenarios', f), 'utf8'), f);
 const meta = { generator: 'edgewise test' };
 
+/** The report record of a scenario, as `edgewise report` computes it. */
+async function reportOf(s: Scenario, source: string): Promise<ReportRecord> {
+  return reportUseCase(scenarioContext(s, { source }), { jobs: 1, seed: 1, simulationArrivals: 20_000 });
+}
+
+/** |a − b| within 1e-9 relative (in-process records are not rounded). */
+const close = (a: number | null | undefined, b: number): void => {
+  expect(typeof a).toBe('number');
+  expect(Math.abs(a! - b)).toBeLessThanOrEqual(1e-9 * Math.max(1, Math.abs(b)));
+};
+
 /** Backlog of a design (today's pairs, plus `added`, minus `removed`) by the permutation oracle. */
-function oracleBacklog(s: Scenario, added: ReadonlyArray<readonly [string, string]>, removed: ReadonlyArray<readonly [string, string]>, rates?: ArrayLike<number>): number {
-  const ids = s.classes.map((c) => c.id);
-  const at = new Map(ids.map((id, k) => [id, k]));
-  const drop = new Set(removed.map((p) => pairKey(p[0], p[1])));
-  const pairs = [...s.compatibilities.map((c) => c.pair).filter((p) => !drop.has(pairKey(p[0], p[1]))), ...added].map((p) => [at.get(p[0])!, at.get(p[1])!] as [number, number]);
-  return permutationOracle(compileGraph(ids, rates ?? s.classes.map((c) => c.rate), pairs)).backlogTotal;
+function oracleBacklog(s: Scenario, added: readonly Pair[], removed: readonly Pair[]): number {
+  return permutationOracle(scenarioDesign(s, added, removed)).backlogTotal;
 }
 
 function selfContained(page: string): void {
@@ -43,54 +52,65 @@ function selfContained(page: string): void {
 }
 
 describe('report of harmful-candidate.json', () => {
-  let data: ReportData;
+  let data: ReportRecord;
   let page: string;
   let scenario: Scenario;
   beforeAll(async () => {
     scenario = load('harmful-candidate.json');
-    data = await gatherReport(scenario, { source: 'harmful-candidate.json' });
+    data = await reportOf(scenario, 'harmful-candidate.json');
     page = renderReport(data, meta);
   });
 
   it("today's figures equal the product-form closed form", () => {
     const ref = permutationOracle(compileModel(scenario));
-    expect(data.today.backlog).toBeCloseTo(ref.backlogTotal, 9);
-    data.today.waits!.forEach((w, k) => expect(w).toBeCloseTo(ref.wait[k]!, 9));
+    close(data.decision!.today.backlog, ref.backlogTotal);
+    scenario.classes.forEach((c, k) => close(data.decision!.today.waits![c.id], ref.wait[k]!));
+    // match rates of today's design, in the scenario's compatibility order
+    data.matchRates.forEach((m, e) => close(m.rate, ref.matchRates[e]!));
   });
 
-  it('the recommended design (fund archer–mage) re-evaluates to its backlog by the closed form', () => {
-    const best = data.designs[0]!;
+  it('the recommended design (fund archer ↔ mage) re-evaluates to its backlog by the closed form', () => {
+    const best = data.decision!.recommended;
     expect(best.added.map((p) => pairKey(p[0], p[1]))).toEqual([pairKey('archer', 'mage')]);
-    expect(best.backlog).toBeCloseTo(oracleBacklog(scenario, best.added, best.removed), 9);
-    expect(best.backlog).toBeLessThan(data.today.backlog);
+    close(best.backlog, oracleBacklog(scenario, best.added, best.removed));
+    expect(best.backlog!).toBeLessThan(data.decision!.today.backlog!);
+    expect(data.designs.map((d) => d.role)).toEqual(['today', 'recommended']);
   });
 
-  it('single changes: healer–tank is harmful and predicted, archer–mage helps (closed forms)', () => {
-    // docs/scenario-format.md derives by hand 17.6451 with healer–tank and 4.3303 with archer–mage;
-    // N({archer, mage}) = {healer, tank}, so healer–tank joins two neighbours of the bottleneck.
-    const row = (a: string, b: string) => data.sensitivity.find((r) => r.kind === 'add' && pairKey(r.pair[0], r.pair[1]) === pairKey(a, b))!;
-    const ht = row('healer', 'tank');
-    expect(ht.backlog).toBeCloseTo(17.6451, 3);
-    expect(ht.backlog).toBeCloseTo(oracleBacklog(scenario, [['healer', 'tank']], []), 9);
-    expect(ht.flagged).toBe(true);
-    expect(ht.predicted).toBe(true);
-    const am = row('archer', 'mage');
-    expect(am.backlog).toBeCloseTo(4.3303, 3);
-    expect(am.flagged).toBe(false);
+  it('single changes: healer ↔ tank raises waiting from today (closed forms), and against the recommended design it is only over budget', () => {
+    // docs/scenario-format.md derives by hand 17.6451 with healer ↔ tank and 4.3303 with archer ↔ mage.
+    const v = (against: string, a: string, b: string) => data.decision!.verdicts.find((x) => x.against === against && pairKey(x.pair[0], x.pair[1]) === pairKey(a, b))!;
+    const today = oracleBacklog(scenario, [], []);
+    const ht = v('today', 'healer', 'tank');
+    expect(today + ht.delta!).toBeCloseTo(17.6451, 3);
+    close(ht.delta, oracleBacklog(scenario, [['healer', 'tank']], []) - today);
+    expect(ht.effect).toBe('raises');
+    const am = v('today', 'archer', 'mage');
+    expect(today + am.delta!).toBeCloseTo(4.3303, 3);
+    // against the recommended design (archer ↔ mage in it), healer ↔ tank lowers waiting but costs 35 > 30
+    const rht = v('recommended', 'healer', 'tank');
+    close(rht.delta, oracleBacklog(scenario, [['archer', 'mage'], ['healer', 'tank']], []) - oracleBacklog(scenario, [['archer', 'mage']], []));
+    expect(rht.delta!).toBeLessThan(0);
+    expect(rht.advice).toBe('over budget');
+    expect(v('recommended', 'archer', 'mage').advice).toBe('keep');
     const { document } = parseHTML(page);
     const verdicts = [...document.querySelectorAll('.verdicts li')].map((li) => li.textContent!);
-    expect(verdicts.some((v) => v.startsWith('Do not pay for Healer – Tank'))).toBe(true);
-    expect(document.querySelectorAll('table.changes tr.flag-bad').length).toBe(1);
+    const lower = pct(-rht.delta! / oracleBacklog(scenario, [['archer', 'mage']], []));
+    expect(verdicts).toContain(`Beyond the budget, adding Healer ↔ Tank (10 balance-patch points) to the recommended design would lower waiting by ${lower}.`);
+    // one story: nothing on the page tells to fund and not to fund the same pair
+    expect(verdicts.some((s) => s.includes('Do not pay for'))).toBe(false);
+    expect(document.querySelectorAll('table.changes tr.flag-bad').length).toBe(0);
+    expect(document.querySelectorAll('table.changes tbody tr').length).toBe(data.decision!.verdicts.filter((x) => x.against === 'recommended').length);
   });
 
   it('the load sweep grows the bottleneck classes, and its first point is today (exact backlog)', () => {
     const s = data.sweep!;
     expect([...s.grow].sort()).toEqual(['archer', 'mage']);
-    const today = s.curves.find((c) => c.role === 'today')!;
-    expect(today.points[0]!.load).toBe(1);
-    expect(today.points[0]!.backlog).toBeCloseTo(data.today.backlog, 9);
+    const today = s.curves[0]!;
+    expect(today.points[0]!.factor).toBe(1);
+    close(today.points[0]!.backlog, data.decision!.today.backlog!);
     // stability limit: {archer, mage} saturates when 5.7·s = 6, i.e. s = 6/5.7 (derived by hand)
-    expect(s.limit).toBeCloseTo(6 / 5.7, 7);
+    expect(s.limit.factor!).toBeCloseTo(6 / 5.7, 7);
   });
 
   it('is self-contained: no script, no external link, font or image, no network URL in src/href', () => {
@@ -117,22 +137,35 @@ describe('report of harmful-candidate.json', () => {
   it('opens with verdicts that quote the exact numbers', () => {
     const { document } = parseHTML(page);
     const first = document.querySelector('.verdicts li')!.textContent!;
-    expect(first).toContain(Number(data.today.backlog.toPrecision(3)).toString());
+    expect(first).toContain(num(oracleBacklog(scenario, [], [])));
+  });
+
+  it('has an appendix with the inputs: every class, compatibility and candidate', () => {
+    const { document } = parseHTML(page);
+    const appendix = document.querySelector('#inputs')!.textContent!;
+    for (const c of scenario.classes) expect(appendix).toContain(c.id);
+    for (const c of [...scenario.compatibilities, ...scenario.candidates]) expect(appendix).toContain(`${c.pair[0][0]!.toUpperCase()}${c.pair[0].slice(1)} ↔ ${c.pair[1][0]!.toUpperCase()}${c.pair[1].slice(1)}`);
+  });
+
+  it('says nothing of where formulas come from in client-facing text', () => {
+    expect(page).not.toMatch(/from memory|J\. Appl\. Probab|SIGMETRICS/i);
   });
 });
 
 describe('report of an unstable design', () => {
-  it('renders without waits for today, explains why, and still recommends a stable design', async () => {
+  it('renders without waits for today, explains why, lists the repairs and still recommends a stable design', async () => {
     const s = load('unstable-example.json');
-    const data = await gatherReport(s, { source: 'unstable-example.json' });
-    expect(data.today.stable).toBe(false);
-    expect(data.today.instability).toMatch(/east-village and west-village/);
-    const best = data.designs[0]!;
+    const data = await reportOf(s, 'unstable-example.json');
+    expect(data.todayStable).toBe(false);
+    expect(data.todayInstability!.message).toMatch(/east-village and west-village/);
+    expect(data.todayInstability!.repairs[0]).toEqual({ added: [['west-village', 'west-village']], cost: 6 });
+    const best = data.decision!.recommended;
     expect(best.stable).toBe(true);
-    expect(best.backlog).toBeCloseTo(oracleBacklog(s, best.added, best.removed), 9);
+    close(best.backlog, oracleBacklog(s, best.added, best.removed));
     const page = renderReport(data, meta);
     selfContained(page);
     expect(page).toContain('cannot keep up');
+    expect(page).toContain('The cheapest way out is to add West village ↔ West village');
   });
 });
 
@@ -157,7 +190,7 @@ describe('escaping of user text', () => {
   let page: string;
   beforeAll(async () => {
     const s = parseScenario(JSON.stringify(hostile), 'hostile.json');
-    page = renderReport(await gatherReport(s, { source: 'hostile.json' }), meta);
+    page = renderReport(await reportOf(s, 'hostile.json'), meta);
   });
 
   it('never lets user text become markup', () => {

@@ -1,12 +1,15 @@
 import { describe, expect, it } from 'vitest';
-import type { DesignView, ReportData, SensitivityRow } from '../../src/report/report-data.js';
-import { namerOf, pairWords, rowAdvice, verdicts, worstCase } from '../../src/report/verdicts.js';
+import type { ReportRecord } from '../../src/usecases/report.js';
+import type { DesignFigures, VerdictRecord } from '../../src/usecases/designs.js';
+import { curveWords, namerOf, pairWords, verdicts } from '../../src/html/verdicts.js';
 
-// Hand-made report data for the co-op quest scenario (scenarios/harmful-candidate.json). The
-// backlogs are the closed forms derived by hand in docs/scenario-format.md ("harmful-candidate.json"):
-// today 414.745370 / 26.388889 = 15.7167, with healer–tank 17.6451, with archer–mage 4.3303.
-// Expected sentences are written from those numbers: 4.3303 / 15.7167 − 1 = −0.7245 → "−72 %",
-// 17.6451 / 15.7167 − 1 = +0.1227 → "12 %".
+// A hand-made report record for the co-op quest scenario (scenarios/harmful-candidate.json). Today's
+// backlog and the recommended design's are the closed forms derived by hand in
+// docs/scenario-format.md ("harmful-candidate.json"): today 15.7167, with archer ↔ mage 4.3303.
+// The single changes against the recommended design are invented round numbers, so that every
+// expected sentence is written by hand from the numbers given here:
+//   4.3303 / 15.7167 − 1 = −0.7245 → "−72 %"; +2 / 4.3303 = 0.4619 → "46.2 %";
+//   −1 / 4.3303 → "23.1 %"; spare capacity 0.3 / 6 = "5.00 %".
 
 const classes = [
   { id: 'healer', label: 'Healer', rate: 1.5 },
@@ -14,56 +17,105 @@ const classes = [
   { id: 'archer', label: 'Archer', rate: 2.5 },
   { id: 'mage', label: 'Mage', rate: 3.2 },
 ];
-const today: DesignView = { name: "today's design", role: 'today', cost: 0, added: [], removed: [], stable: true, backlog: 15.7167, waits: [0.1, 0.2, 2.5, 2.4], underVariants: [{ stable: false, backlog: NaN, maxWait: NaN, maxWaitClass: '' }] };
-const best: DesignView = { name: 'recommended (cost 25)', role: 'recommended', cost: 25, added: [['archer', 'mage']], removed: [], stable: true, backlog: 4.3303, waits: [0.2, 0.8, 0.03, 0.04], underVariants: [{ stable: true, backlog: 6.5, maxWait: 1, maxWaitClass: 'tank' }] };
-const rows: SensitivityRow[] = [
-  { kind: 'add', pair: ['healer', 'tank'], money: 10, stable: true, backlog: 17.6451, delta: 17.6451 - 15.7167, flagged: true, predicted: true },
-  { kind: 'add', pair: ['archer', 'mage'], money: 25, stable: true, backlog: 4.3303, delta: 4.3303 - 15.7167, flagged: false, predicted: false },
-  { kind: 'remove', pair: ['healer', 'healer'], money: 3, stable: true, backlog: 15.7167, delta: 0, flagged: true, predicted: null },
-  { kind: 'remove', pair: ['tank', 'archer'], money: 0, stable: false, backlog: NaN, delta: NaN, flagged: false, predicted: null, instability: 'items from archer …' },
+
+const fig = (o: Partial<DesignFigures>): DesignFigures => ({
+  added: [],
+  removed: [],
+  cost: 0,
+  stable: true,
+  method: 'exact',
+  backlog: null,
+  objective: null,
+  maxWait: null,
+  maxWaitClass: null,
+  waits: null,
+  spareCapacity: null,
+  flowMargin: null,
+  independentSets: null,
+  ...o,
+});
+
+const verdict = (o: Partial<VerdictRecord> & Pick<VerdictRecord, 'pair' | 'change'>): VerdictRecord => ({
+  kind: o.change === 'add' ? 'candidate' : 'removable',
+  against: 'recommended',
+  delta: null,
+  backlogDelta: null,
+  price: 0,
+  cost: 25,
+  stable: true,
+  withinBudget: true,
+  feasible: true,
+  effect: 'no change',
+  ...o,
+});
+
+const today = fig({ backlog: 15.7167, objective: 15.7167, maxWait: 2.5, maxWaitClass: 'archer' });
+const recommended = { ...fig({ added: [['archer', 'mage']], cost: 25, backlog: 4.3303, objective: 4.3303, maxWait: 0.8, maxWaitClass: 'tank' }), improvements: 0, why: '' };
+const against: VerdictRecord[] = [
+  verdict({ pair: ['healer', 'tank'], change: 'add', delta: 2, backlogDelta: 2, price: 10, cost: 35, effect: 'raises', advice: 'harmful' }),
+  verdict({ pair: ['tank', 'archer'], change: 'remove', stable: false, effect: 'breaks stability', advice: 'needed for stability' }),
+  verdict({ pair: ['mage', 'mage'], change: 'add', delta: -1, backlogDelta: -1, price: 40, cost: 65, withinBudget: false, feasible: false, effect: 'lowers', advice: 'over budget' }),
+  verdict({ pair: ['archer', 'mage'], change: 'remove', delta: 11.3864, backlogDelta: 11.3864, price: 25, cost: 0, effect: 'raises', advice: 'keep' }),
+  // against today's design: carries an effect, never advice, and is never told in the headline
+  verdict({ pair: ['healer', 'tank'], change: 'add', against: 'today', delta: 1.9284, backlogDelta: 1.9284, price: 10, cost: 10, effect: 'raises' }),
 ];
-const data: Omit<ReportData, 'verdicts'> = {
+const outcome = (stable: boolean, backlog: number | null) => ({ stable, backlog, maxWait: null, maxWaitClass: null });
+
+const record = {
+  command: 'report',
   scenario: 'co-op',
-  description: null,
   timeUnit: 'minute',
+  warnings: [],
+  classes,
+  description: null,
   costUnit: 'points',
   itemWord: 'players',
   budget: 30,
-  classes,
-  compatibilityCount: 5,
-  candidateCount: 2,
-  graph: { nodes: [], edges: [], timeUnit: 'minute', title: '' },
-  bottleneck: { set: ['archer', 'mage'], neighbours: ['healer', 'tank'], demand: 5.7, capacity: 6, slack: 0.3 },
-  today,
-  designs: [best],
-  front: [],
-  baselines: [],
-  sensitivity: rows,
-  sweep: { grow: ['archer', 'mage'], curves: [], crossovers: [{ load: 1.02, label: 'Healer – Tank starts to hurt' }], limit: 1.0526 },
+  decision: { objective: 'total', objectiveLabel: 'total backlog', budget: 30, costUnit: 'points', recommended, today, verdicts: against, pareto: [], baselines: [] },
+  noDecision: null,
+  todayStable: true,
+  bottleneck: { set: ['archer', 'mage'], neighbours: ['healer', 'tank'], demand: 5.7, capacity: 6, spareCapacity: 0.3 },
+  todayInstability: null,
+  matchRates: [],
+  designs: [
+    { role: 'today', name: "today's design", figures: today, underVariants: [outcome(false, null)] },
+    { role: 'recommended', name: 'the recommended design', figures: recommended, underVariants: [outcome(true, 6.5)] },
+  ],
   variants: ['rush'],
+  sweep: {
+    grow: ['archer', 'mage'],
+    limit: { factor: 1.0526, method: '' },
+    curves: [{ name: 'reference' }, { name: 'with archer~mage' }, { name: 'with archer~mage,healer~tank' }],
+    crossovers: [{ variant: 'with archer~mage,healer~tank', factor: 1.02, direction: 'starts-to-hurt' }],
+  },
+  sweepAddition: { pair: ['healer', 'tank'], why: 'harmful' },
+  simulated: [],
+  inputs: { classes: [], compatibilities: [], candidates: [], demand: [] },
   notes: [],
-};
-const name = namerOf(data);
+} as unknown as ReportRecord;
+
+const name = namerOf(record);
+const v = verdicts(record, name);
 
 describe('verdicts', () => {
-  const v = verdicts(data, name);
-
   it("first says what today's design does, with the bottleneck and its spare capacity (0.3 / 6 = 5 %)", () => {
     expect(v[0]).toBe(
-      "Today's design keeps up with demand: on average 15.7 players wait, and the longest mean wait is 2.5 minutes (Archer). The tightest group is Archer and Mage: it brings 5.7 per minute and only Healer and Tank can serve it, with 6 per minute (5\u00a0% to spare).",
+      "Today's design keeps up with demand: on average 15.72 players wait, and the longest mean wait is 2.5 minutes (Archer). The tightest group is Archer and Mage: it brings 5.7 per minute and only Healer and Tank can serve it, with 6 per minute (5.00 % to spare).",
     );
   });
 
   it('then what to fund within the budget, with the exact change in waiting (−72 %)', () => {
     expect(v[1]).toBe(
-      'Within the budget of 30 points: fund Archer – Mage (25). It costs 25 points; waiting goes from 15.7 to 4.33 players (−72\u00a0%), and the longest mean wait from 2.5 to 0.8 minutes.',
+      'Within the budget of 30 points: fund Archer ↔ Mage. It costs 25 points; waiting goes from 15.72 to 4.33 players (−72 %), and the longest mean wait from 2.5 to 0.8 minutes.',
     );
   });
 
-  it('warns against the harmful candidate (+12 %) and names removals that save money or break stability', () => {
-    expect(v.some((s) => s.startsWith('Do not pay for Healer – Tank (10 points): on its own it raises waiting by 12\u00a0%.'))).toBe(true);
-    expect(v).toContain('On its own, dropping Healer with itself (saves 3, waiting unchanged) would save money without adding waiting (savings in points).');
-    expect(v).toContain('Keep Tank – Archer: without it the design can no longer keep up.');
+  it('every sentence about a single change is measured against the recommended design', () => {
+    expect(v).toContain('Do not pay for Healer ↔ Tank (10 points): added to the recommended design it raises waiting by 46.2 %. More flexibility is not always better.');
+    expect(v).toContain('Keep Tank ↔ Archer: without it the recommended design can no longer keep up.');
+    expect(v).toContain('Beyond the budget, adding Mage ↔ Mage (40 points) to the recommended design would lower waiting by 23.1 %.');
+    // the verdict against today's design (+1.9284) is not told: +1.9284 / 15.7167 = 12.3 %
+    expect(v.join(' ')).not.toContain('12.3 %');
   });
 
   it('reports demand futures: today fails under "rush", the recommendation\'s worst case is 6.5 there', () => {
@@ -71,37 +123,53 @@ describe('verdicts', () => {
     expect(v).toContain('The recommended design\'s worst case is 6.5 players waiting (“rush” demand).');
   });
 
-  it('ends with the load sweep: stability limit and crossover', () => {
-    expect(v[v.length - 1]).toBe("Today's design stays stable until the demand of Archer and Mage reaches ×1.05 of today's; Healer – Tank starts to hurt at ×1.02.");
+  it('ends with the load sweep: stability limit and crossover, the curve named in words', () => {
+    expect(v[v.length - 1]).toBe("Today's design stays stable until the demand of Archer and Mage reaches ×1.05 of today's; the recommended design with Healer ↔ Tank added starts to hurt at ×1.02.");
+    expect(curveWords(record, 'reference', name)).toBe("today's design");
+    expect(curveWords(record, 'with archer~mage', name)).toBe('the recommended design');
   });
 
-  it('says to keep today when nothing helps, and explains an unstable today', () => {
-    const front = [{ cost: 0, backlog: 15.7167, maxWait: 2.5, added: [], removed: [] }];
-    const none = verdicts({ ...data, designs: [], front, sensitivity: [], variants: [], sweep: null }, name);
-    expect(none).toEqual([v[0], "Within the budget of 30 points, no change lowers waiting: keep today's design."]);
-    const unstable = verdicts({ ...data, today: { ...today, stable: false, backlog: NaN, waits: null, instability: 'items from archer and mage (5.7/minute) can only be matched with healer (1.5/minute)' }, sensitivity: [], variants: [], sweep: null }, name);
-    expect(unstable[0]).toBe("Today's design cannot keep up: items from archer and mage (5.7/minute) can only be matched with healer (1.5/minute). Waiting grows without bound until the design changes.");
-    // without sensitivity rows the price of each change is not repeated
-    expect(unstable[1]).toBe('Within the budget of 30 points: fund Archer – Mage. It costs 25 points and makes the design stable, with 4.33 players waiting on average.');
+  it('says to keep today when nothing helps', () => {
+    const keep = { ...record, decision: { ...record.decision!, recommended: { ...today, improvements: 0, why: '' }, verdicts: [] }, variants: [], designs: [], sweep: null } as ReportRecord;
+    expect(verdicts(keep, name)).toEqual([v[0], "Within the budget of 30 points, no change lowers waiting: keep today's design."]);
+  });
+
+  it('explains an unstable today with its cheapest repair, and a stable recommendation', () => {
+    const unstable = {
+      ...record,
+      todayStable: false,
+      bottleneck: null,
+      todayInstability: { message: 'unstable: items from archer and mage (5.7/minute) can only be matched with healer (1.5/minute)', repairs: [{ added: [['archer', 'mage']], cost: 25 }] },
+      decision: { ...record.decision!, today: fig({ stable: false }), verdicts: [] },
+      variants: [],
+      sweep: null,
+    } as unknown as ReportRecord;
+    const u = verdicts(unstable, name);
+    expect(u[0]).toBe(
+      "Today's design cannot keep up: items from archer and mage (5.7/minute) can only be matched with healer (1.5/minute). Waiting grows without bound until the design changes. The cheapest way out is to add Archer ↔ Mage (25 points).",
+    );
+    expect(u[1]).toBe('Within the budget of 30 points: fund Archer ↔ Mage. It costs 25 points and makes the design stable, with 4.33 players waiting on average.');
+    const none = verdicts({ ...unstable, decision: null, noDecision: 'no stable design exists' } as ReportRecord, name);
+    expect(none[1]).toBe('No recommendation: no stable design exists.');
+  });
+
+  it('with patience, gives the simulated figures with abandonment beside the exact ones', () => {
+    const sim = { ...record, simulated: [{ role: 'recommended', seed: 1, replications: 4, arrivals: 1000, backlog: { mean: 3.1, ci95: [3, 3.2] }, abandonShare: { mean: 0.27, ci95: [0.26, 0.28] }, byClass: {} }] } as unknown as ReportRecord;
+    expect(verdicts(sim, name).at(-1)).toBe(
+      'With the patience given in the file, items give up: simulation of the recommended design gives 3.1 players waiting on average and 27.0 % of arrivals giving up (the exact figures above ignore patience).',
+    );
   });
 });
 
-describe('rowAdvice', () => {
-  it('gives one plain instruction per kind of row', () => {
-    expect(rowAdvice(rows[0]!, 15.7167)).toBe("Don't fund: waiting goes up (+12\u00a0%).");
-    expect(rowAdvice(rows[1]!, 15.7167)).toBe('Helps: waiting goes down (−72\u00a0%).');
-    expect(rowAdvice(rows[2]!, 15.7167)).toBe('Drop it: saves money, waiting unchanged.');
-    expect(rowAdvice(rows[3]!, 15.7167)).toBe('Keep: without it the queue grows without bound.');
+describe('namerOf and pairWords', () => {
+  it('names pairs with labels, in the one pair notation', () => {
+    expect(pairWords(['healer', 'tank'], name)).toBe('Healer ↔ Tank');
+    expect(pairWords(['healer', 'healer'], name)).toBe('Healer ↔ Healer');
   });
-});
-
-describe('worstCase and pairWords', () => {
-  it('takes the largest backlog over today and the variants; unstable counts as unbounded', () => {
-    expect(worstCase(best, ['rush'])).toEqual({ backlog: 6.5, where: 'rush' });
-    expect(worstCase(today, ['rush'])).toEqual({ backlog: Infinity, where: 'rush' });
-  });
-  it('names pairs with labels', () => {
-    expect(pairWords(['healer', 'tank'], name)).toBe('Healer – Tank');
-    expect(pairWords(['healer', 'healer'], name)).toBe('Healer with itself');
+  it('falls back to ids when a label is missing or shared', () => {
+    const shared = namerOf({ classes: [{ id: 'a', label: 'Same', rate: 1 }, { id: 'b', label: 'Same', rate: 1 }] });
+    expect(pairWords(['a', 'b'], shared)).toBe('a ↔ b');
+    const missing = namerOf({ classes: [{ id: 'a', label: 'A', rate: 1 }, { id: 'b', label: null, rate: 1 }] });
+    expect(missing('a')).toBe('a');
   });
 });

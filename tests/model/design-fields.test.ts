@@ -47,6 +47,17 @@ describe('readDesignFields', () => {
     expect(f.forbidden).toEqual([['a', 'c'], ['c', 'c']]);
   });
 
+  it('reads {pair, reason} entries like plain pairs, and checks them the same way', () => {
+    const doc = base({ mustKeep: [{ pair: ['c', 'b'], reason: 'the night cover agreement' }], forbidden: [{ pair: ['c', 'c'], reason: 'breaks the rest rule' }, ['a', 'c']] });
+    const f = readDesignFields(validateScenario(doc));
+    expect(f.mustKeep).toEqual([['c', 'b']]);
+    expect(f.forbidden).toEqual([['c', 'c'], ['a', 'c']]);
+    expect(problems(base({ forbidden: [{ pair: ['a', 'zz'], reason: 'x' }] }))[0]).toMatchObject({ path: 'forbidden[0]', message: expect.stringMatching(/unknown class "zz"/) });
+    expect(problems(base({ forbidden: [{ reason: 'x' }] }))[0]).toMatchObject({ path: 'forbidden[0]', message: expect.stringMatching(/two class ids/) });
+    expect(problems(base({ forbidden: [{ pair: ['c', 'c'], reason: 3 }] }))[0]).toMatchObject({ path: 'forbidden[0].reason', message: expect.stringMatching(/must be text/) });
+    expect(problems(base({ mustKeep: [{ pair: ['c', 'b'], why: 'x' }] }))[0]).toMatchObject({ path: 'mustKeep[0]', message: expect.stringMatching(/unknown field "why"/) });
+  });
+
   it('names the path of every bad per-class value, all at once', () => {
     const got = problems(base({}, [{ maxCompatibilities: 1.5 }, { waitTarget: 0 }, { weight: -1 }]));
     expect(got.map((p) => p.path)).toEqual(['classes[0].maxCompatibilities', 'classes[1].waitTarget', 'classes[2].weight']);

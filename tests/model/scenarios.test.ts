@@ -3,7 +3,9 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { compileGraph, compileModel } from '../../src/model/compile.js';
 import { parseScenario } from '../../src/model/validate.js';
-import type { Scenario } from '../../src/model/scenario.js';
+import { pairKey, type Scenario } from '../../src/model/scenario.js';
+import { readDesignFields } from '../../src/model/design-fields.js';
+import { pairRules } from '../../src/usecases/context.js';
 import { evaluateExact } from '../../src/exact/evaluate.js';
 import { UnstableDesignError } from '../../src/errors.js';
 
@@ -142,10 +144,11 @@ function productFormBacklog(g: Bits): { backlog: number; empty: number } {
 const relClose = (a: number, b: number, tol = 1e-9): boolean => Math.abs(a - b) <= tol * Math.max(1, Math.abs(b));
 
 describe('shipped scenarios', () => {
-  it('are the five demo files', () => {
+  it('are the six demo files', () => {
     expect(files).toEqual([
       'game-matchmaking-ladder.json',
       'harmful-candidate.json',
+      'regional-shift-swap.json',
       'ride-pooling-hub.json',
       'shift-swap-marketplace.json',
       'unstable-example.json',
@@ -342,5 +345,23 @@ describe('unstable-example.json', () => {
   it('the east–west candidate makes it stable (brute force)', () => {
     const fixed = bits(g.ids, g.rates, [...s.compatibilities.map((c) => c.pair), ['east-village', 'west-village']]);
     expect(bruteStability(fixed).violations).toEqual([]);
+  });
+});
+
+describe('regional-shift-swap.json', () => {
+  const s = load('regional-shift-swap.json');
+
+  it('has 16 classes and carries the caution in its description (shift cover)', () => {
+    expect(s.classes).toHaveLength(16);
+    expect(String(s.description)).toContain('a model to inform decisions, not a substitute for professional judgement and local rules');
+  });
+
+  it('states its rules with their reasons ({pair, reason} entries), read as rules of the design', () => {
+    const doc = raw('regional-shift-swap.json');
+    const fields = readDesignFields(s, 'regional-shift-swap.json');
+    expect(fields.forbidden.map((p) => [...p])).toEqual(doc.forbidden.map((e: { pair: string[] }) => e.pair));
+    expect(fields.mustKeep.map((p) => [...p])).toEqual(doc.mustKeep.map((e: { pair: string[] }) => e.pair));
+    const rules = pairRules(s);
+    for (const e of doc.forbidden) expect(rules.get(pairKey(e.pair[0], e.pair[1]))).toEqual({ kind: 'forbidden', reason: e.reason });
   });
 });

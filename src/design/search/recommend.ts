@@ -148,12 +148,12 @@ export interface Recommendation {
   readonly partial: boolean;
 }
 
-/** "add a–b, c–d; drop e–f" for messages. */
+/** "add a ↔ b, c ↔ d; drop e ↔ f" for messages (the one text notation of a pair). */
 export function describeChanges(problem: DesignProblem, design: Uint8Array): string {
   const { added, removed } = designChanges(problem, design);
   const name = (j: number): string => {
     const t = problem.toggles[j]!;
-    return `${problem.ids[t.a]}–${problem.ids[t.b]}`;
+    return `${problem.ids[t.a]} ↔ ${problem.ids[t.b]}`;
   };
   const parts: string[] = [];
   if (added.length > 0) parts.push(`add ${added.map(name).join(', ')}`);

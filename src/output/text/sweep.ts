@@ -1,5 +1,5 @@
 import type { SweepRecord } from '../../usecases/sweep.js';
-import { num, pct, perUnit } from '../format.js';
+import { num, pairText, pct, perUnit } from '../format.js';
 import { referenceWords } from './common.js';
 import { list, para, tableBlock, title, type Block } from './doc.js';
 
@@ -7,7 +7,14 @@ import { list, para, tableBlock, title, type Block } from './doc.js';
 export function sweepText(r: SweepRecord): Block[] {
   const u = perUnit(r.timeUnit);
   const grown = r.grow.join(', ');
-  const label = (name: string): string => (name === 'reference' ? referenceWords(r.reference) : name);
+  // curves are named in the ASCII notation in the record ("with a~b"); text writes pairs as a ↔ b
+  const label = (name: string): string => {
+    if (name === 'reference') return referenceWords(r.reference);
+    const c = r.curves.find((x) => x.name === name);
+    if (!c) return name;
+    const parts = [c.add.length > 0 ? `with ${c.add.map((p) => pairText(p)).join(', ')}` : '', c.remove.length > 0 ? `without ${c.remove.map((p) => pairText(p)).join(', ')}` : ''];
+    return parts.filter((x) => x !== '').join(' ');
+  };
   const blocks: Block[] = [
     title(`${r.scenario} — load sweep of ${referenceWords(r.reference)}: ${grown} grow together (exact FCFM backlog)`),
     tableBlock({
@@ -48,7 +55,7 @@ export function sweepText(r: SweepRecord): Block[] {
         ? 'no crossover within the sweep'
         : own.map((c) => `${c.direction === 'starts-to-hurt' ? 'starts to hurt' : 'starts to help'} at ×${num(c.factor)}${c.headroomUsed !== null ? ` (${pct(c.headroomUsed)} of the headroom)` : ''}`).join(', then ');
     const ownLimit = v.limit !== null ? `its own limit ×${num(v.limit, 6)}` : first.stable ? 'no limit' : 'no limit (unstable)';
-    lines.push(`${v.name}: ${today}; ${cross}; ${ownLimit}`);
+    lines.push(`${label(v.name)}: ${today}; ${cross}; ${ownLimit}`);
   }
   if (lines.length > 0) blocks.push(list(lines, `Variants, measured against ${referenceWords(r.reference)}:`), para(`Crossovers: ${r.crossoverMethod}.`));
   return blocks;

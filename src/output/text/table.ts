@@ -99,6 +99,11 @@ function renderPart(t: Table, cols: readonly number[], widths: readonly number[]
   return lines;
 }
 
+/** Equal widths for `n` columns that must fit `width` whatever their cells (cells then wrap hard). */
+function hardWidths(n: number, width: number): number[] {
+  return new Array<number>(n).fill(Math.max(4, Math.floor((width - SEP.length * (n - 1)) / n)));
+}
+
 /** The table as lines of at most `fit.width` columns (unless `fit.wide`). */
 export function renderTable(t: Table, fit: Fit): string[] {
   const key = t.key ?? 0;
@@ -106,26 +111,26 @@ export function renderTable(t: Table, fit: Fit): string[] {
   let shown = [...all];
   const folded: number[][] = [];
   const wide = fit.wide === true;
+  /** The main part, then every folded group keyed by the key column, then the note saying so. */
+  const withFolded = (out: string[]): string[] => {
+    for (const group of folded) {
+      const cols = [key, ...group];
+      out.push('', ...renderPart(t, cols, fitWidths(t, cols, fit.width, wide) ?? hardWidths(cols.length, fit.width)));
+    }
+    const n = folded.flat().length;
+    if (n > 0) out.push(...wrap(`(${n} column${n === 1 ? '' : 's'} folded below to fit ${fit.width} columns; --wide shows one table)`, fit.width));
+    return out;
+  };
   for (;;) {
     const widths = fitWidths(t, shown, fit.width, wide);
-    if (widths) {
-      const out = renderPart(t, shown, widths);
-      for (const group of folded) {
-        const cols = [key, ...group];
-        const w = fitWidths(t, cols, fit.width, wide) ?? cols.map(() => Math.max(8, Math.floor(fit.width / cols.length) - 2));
-        out.push('', ...renderPart(t, cols, w));
-      }
-      if (folded.length > 0) out.push(`(${folded.flat().length} column${folded.flat().length === 1 ? '' : 's'} folded below to fit ${fit.width} columns; --wide shows one table)`);
-      return out;
-    }
+    if (widths) return withFolded(renderPart(t, shown, widths));
     // fold one more column: the rightmost secondary one, else the rightmost non-key one
     const candidates = shown.filter((c) => c !== key);
     const secondary = candidates.filter((c) => t.columns[c]!.secondary);
     const pick = (secondary.length > 0 ? secondary : candidates).at(-1);
     if (pick === undefined || shown.length <= 2) {
-      // two columns that cannot fit: wrap everything hard
-      const w = shown.map(() => Math.max(4, Math.floor((fit.width - SEP.length * (shown.length - 1)) / shown.length)));
-      return renderPart({ ...t, columns: t.columns.map((c) => ({ ...c, wrap: true })) }, shown, w);
+      // two columns that cannot fit: wrap everything hard (the folded groups still follow)
+      return withFolded(renderPart({ ...t, columns: t.columns.map((c) => ({ ...c, wrap: true })) }, shown, hardWidths(shown.length, fit.width)));
     }
     shown = shown.filter((c) => c !== pick);
     const target = folded.at(-1);

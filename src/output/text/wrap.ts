@@ -33,10 +33,22 @@ function hardBreak(word: string, w: number): string[] {
   return out;
 }
 
+/** Words with a pair "a ↔ b" kept as one unit, so that a line never ends inside a pair. */
+function glued(words: readonly string[]): string[] {
+  const out: string[] = [];
+  for (let i = 0; i < words.length; i++) {
+    if (words[i] === '↔' && out.length > 0 && i + 1 < words.length) {
+      out[out.length - 1] = `${out[out.length - 1]} ↔ ${words[i + 1]}`;
+      i++;
+    } else out.push(words[i]!);
+  }
+  return out;
+}
+
 /**
- * Wraps text to lines of at most `w` columns, breaking at spaces; a word wider than the line is
- * broken where it must. Explicit newlines are kept. `indent` prefixes every line after the first
- * (a hanging indent).
+ * Wraps text to lines of at most `w` columns, breaking at spaces but not inside a pair "a ↔ b"
+ * unless the pair is wider than the line; a word wider than the line is broken where it must.
+ * Explicit newlines are kept. `indent` prefixes every line after the first (a hanging indent).
  */
 export function wrap(text: string, w: number, indent = ''): string[] {
   const lines: string[] = [];
@@ -44,22 +56,28 @@ export function wrap(text: string, w: number, indent = ''): string[] {
   const push = (s: string): void => void lines.push((lines.length === 0 ? '' : indent) + s);
   const room = (): number => limit - (lines.length === 0 ? 0 : width(indent));
   for (const para of text.split('\n')) {
-    const words = para.split(' ').filter((x) => x !== '');
+    const words = glued(para.split(' ').filter((x) => x !== ''));
     if (words.length === 0) {
       push('');
       continue;
     }
     let cur = '';
-    for (const word of words) {
+    for (let i = 0; i < words.length; i++) {
+      const word = words[i]!;
       if (cur !== '' && width(cur) + 1 + width(word) <= room()) {
         cur += ` ${word}`;
+        continue;
+      }
+      if (word.includes(' ↔ ') && width(word) > limit - width(indent)) {
+        words.splice(i, 1, ...word.split(' ')); // a pair wider than any line: break it at its spaces
+        i--;
         continue;
       }
       if (cur !== '') push(cur);
       if (width(word) <= room()) cur = word;
       else {
         const pieces = hardBreak(word, limit - width(indent));
-        for (let i = 0; i < pieces.length - 1; i++) push(pieces[i]!);
+        for (let j = 0; j < pieces.length - 1; j++) push(pieces[j]!);
         cur = pieces[pieces.length - 1]!;
       }
     }

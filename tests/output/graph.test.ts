@@ -1,10 +1,10 @@
 import { describe, expect, it } from 'vitest';
-import { toGraph } from '../../src/report/graph.js';
+import { toGraph } from '../../src/output/graph.js';
 import { compileGraph } from '../../src/model/compile.js';
 import { evaluateExact } from '../../src/exact/evaluate.js';
 
 describe('toGraph (graphology export)', () => {
-  // Triangle a–b–c with a self-compatible: stable by the definition (derived by hand: {b}: 1 < 3,
+  // Triangle a, b, c with a self-compatible: stable by the definition (derived by hand: {b}: 1 < 3,
   // {c}: 1.5 < 3, {b,c} is not independent; a has a self-loop so sets containing it are not constrained).
   const model = compileGraph(['a', 'b', 'c'], [2, 1, 1.5], [[0, 0], [0, 1], [0, 2], [1, 2]]);
   const result = evaluateExact(model);
