@@ -8,6 +8,7 @@
 import { EdgewiseError, InfeasibleDesignError, TooLargeError } from '../errors.js';
 import { pairKey } from '../model/scenario.js';
 import type { ObjectiveName } from '../design/space/objective.js';
+import { impatientClasses } from './warnings.js';
 import { pairRules, recordBase, scenarioContext, type ScenarioContext } from './context.js';
 import type { DesignFigures } from './designs.js';
 import { instabilityOf } from './instability.js';
@@ -212,7 +213,7 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
 
   // the report says it in its own words: the exact figures ignore patience, the simulated ones beside them do not
   const patienceNote = ctx.patience
-    ? 'Patience: the exact figures assume every item waits until it is matched; the simulated figures under "Waits per class" include items giving up (abandonment).'
+    ? `The exact figures ignore patience (${impatientClasses(ctx)} one in the file): they assume every item waits until it is matched; the simulated figures under "Waits per class" include items giving up (abandonment).`
     : null;
   const warnings = [...(decision?.warnings ?? []).filter((w) => !/patience/i.test(w)), ...(patienceNote ? [patienceNote] : [])];
   return {

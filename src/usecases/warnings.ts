@@ -7,10 +7,16 @@ import type { ScenarioContext } from './context.js';
 
 /** Exact FCFM figures assume patient items: said whenever the file gives a class a patience. */
 export function patienceWarning(ctx: ScenarioContext, what = 'These exact figures'): string | null {
+  const who = impatientClasses(ctx);
+  return who === null ? null : `${what} ignore patience: ${who} a patience in the file, so in reality some items give up and fewer wait; \`edgewise simulate\` gives figures with abandonment.`;
+}
+
+/** "class c has" / "classes a, b and 3 more have" for the classes with a patience, null when none. */
+export function impatientClasses(ctx: ScenarioContext): string | null {
   const impatient = ctx.scenario.classes.filter((c) => c.patience !== undefined).map((c) => c.id);
   if (impatient.length === 0) return null;
   const which = impatient.length <= 4 ? impatient.join(', ') : `${impatient.slice(0, 3).join(', ')} and ${impatient.length - 3} more`;
-  return `${what} ignore patience: ${impatient.length === 1 ? 'class' : 'classes'} ${which} ${impatient.length === 1 ? 'has' : 'have'} a patience in the file, so in reality some items give up and fewer wait; \`edgewise simulate\` gives figures with abandonment.`;
+  return `${impatient.length === 1 ? 'class' : 'classes'} ${which} ${impatient.length === 1 ? 'has' : 'have'}`;
 }
 
 /** Figures under a demand variant say so. */

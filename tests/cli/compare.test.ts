@@ -103,11 +103,11 @@ describe('compare --json', () => {
   it('an unstable scenario gets its certificate and the cheapest fix out of reach of the budget', () => {
     const u = j.columns[2];
     expect(u.stable).toBe(false);
-    expect(u.backlog).toBeNull();
+    expect(u.backlog).toBeUndefined();
     // the bipartite pair x–y cannot be stable (J. Appl. Probab. 2016); y–y costs 3 > budget 1
     expect(u.instability.message).toMatch(/bipartite/);
     expect(u.instability.repairs).toEqual([{ added: [['y', 'y']], cost: 3 }]);
-    expect(u.recommended).toBeNull();
+    expect(u.recommended).toBeUndefined();
     expect(u.note).toMatch(/budget/);
   });
 

@@ -91,7 +91,7 @@ describe('evaluate --json', () => {
     expect(c.demand).toBeGreaterThanOrEqual(c.capacity);
     expect(c.set).toContain('docks');
     expect(j.instability.message).toMatch(/can only be matched with/);
-    expect(j.backlog).toBeNull();
+    expect(j.backlog).toBeUndefined();
     expect(j.repairs).toEqual([]); // no candidates in the file
   });
 });

@@ -70,7 +70,7 @@ describe('edgewise simulate --json', () => {
     expect(doc.reference.kind).toBe('today');
     expect(doc.matchRates.map((m: { pair: string[] }) => m.pair)).toEqual(ladder.compatibilities);
     expect(doc.abandonment.byClass.bronze.rate.mean).toBe(0);
-    expect(doc.abandonment.byClass.bronze.patience).toBeNull(); // infinite patience
+    expect(doc.abandonment.byClass.bronze.patience).toBeUndefined(); // infinite patience: no figure, so the key is left out
     expect(doc.stability.stable).toBe(true);
   });
 
@@ -93,7 +93,7 @@ describe('edgewise simulate --json', () => {
 
   it('no exact column for other policies, impatient classes, or beyond --max-sets', async () => {
     const longest = JSON.parse((await run({ file: ladderFile, json: true, policy: 'most-waiting' })).out);
-    expect(longest.exact).toEqual({ available: false, reason: 'exact values exist for FCFM only', independentSets: null });
+    expect(longest.exact).toEqual({ available: false, reason: 'exact values exist for FCFM only' });
     expect(longest.backlog.total.exact).toBeUndefined();
     const impatient = JSON.parse((await run({ file: impatientFile, json: true })).out);
     expect(impatient.exact.available).toBe(false);

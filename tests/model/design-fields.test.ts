@@ -52,10 +52,10 @@ describe('readDesignFields', () => {
     const f = readDesignFields(validateScenario(doc));
     expect(f.mustKeep).toEqual([['c', 'b']]);
     expect(f.forbidden).toEqual([['c', 'c'], ['a', 'c']]);
-    expect(problems(base({ forbidden: [{ pair: ['a', 'zz'], reason: 'x' }] }))[0]).toMatchObject({ path: 'forbidden[0]', message: expect.stringMatching(/unknown class "zz"/) });
-    expect(problems(base({ forbidden: [{ reason: 'x' }] }))[0]).toMatchObject({ path: 'forbidden[0]', message: expect.stringMatching(/two class ids/) });
-    expect(problems(base({ forbidden: [{ pair: ['c', 'c'], reason: 3 }] }))[0]).toMatchObject({ path: 'forbidden[0].reason', message: expect.stringMatching(/must be text/) });
-    expect(problems(base({ mustKeep: [{ pair: ['c', 'b'], why: 'x' }] }))[0]).toMatchObject({ path: 'mustKeep[0]', message: expect.stringMatching(/unknown field "why"/) });
+    expect(problems(base({ forbidden: [{ pair: ['a', 'zz'], reason: 'x' }] }))[0]).toMatchObject({ path: 'forbidden[0].pair', message: expect.stringMatching(/unknown class "zz"/) });
+    expect(problems(base({ forbidden: [{ reason: 'x' }] }))[0]).toMatchObject({ path: 'forbidden[0].pair', message: expect.stringMatching(/two class ids/) });
+    expect(problems(base({ forbidden: [{ pair: ['c', 'c'], reason: 3 }] }))[0]).toMatchObject({ path: 'forbidden[0].reason', message: expect.stringMatching(/must be a string/) });
+    expect(problems(base({ mustKeep: [{ pair: ['c', 'b'], why: 'x' }] }))[0]).toMatchObject({ path: 'mustKeep[0].why', message: expect.stringMatching(/unknown field "why"/) });
   });
 
   it('names the path of every bad per-class value, all at once', () => {

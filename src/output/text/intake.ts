@@ -5,7 +5,7 @@ import { para, tableBlock, title, type Block } from './doc.js';
 
 type FitRecord = ReturnType<typeof fitRecord>;
 
-const interval = (p: readonly [number | null, number | null]): string => `${p[0] === null ? '∞' : num(p[0])} – ${p[1] === null ? '∞' : num(p[1])}`;
+const interval = (p: readonly [number | null, number | null]): string => `${p[0] === null ? '∞' : num(p[0])} to ${p[1] === null ? '∞' : num(p[1])}`;
 
 /** `fit` for people. */
 export function fitText(rec: FitRecord, wrote: string | null): Block[] {
