@@ -6,13 +6,13 @@
  */
 import type { ReportRecord, ShownDesign } from '../usecases/report.js';
 import type { VerdictRecord } from '../usecases/designs.js';
-import { listWords, money, num, pct, plural, signed, signedPct } from '../output/format.js';
-import { html, raw, type Markup } from './escape.js';
+import { listWords, money, num, pairText, pct, plural, signed, signedPct } from '../output/format.js';
+import { escapeHtml, html, raw, type Markup } from './escape.js';
 import { graphSvg, type EdgeKind, type GraphEdge } from './graph-svg.js';
 import { paretoChart } from './pareto-chart.js';
 import { REPORT_CSS } from './report-css.js';
 import { sweepChart } from './sweep-chart.js';
-import { curveWords, namerOf, pairWords, verdicts, type Namer } from './verdicts.js';
+import { curveWords, namerOf, verdicts, type Namer } from './verdicts.js';
 import { changeWord } from '../output/text/recommend.js';
 import { WORK_LIMITS } from '../usecases/limits.js';
 import { waitChart } from './wait-chart.js';
@@ -90,12 +90,55 @@ function figure(id: string, chart: Markup, caption: Markup | string): Markup {
   return html`<figure class="chart-box" id="${id}" data-chart="${id}">${chart}<figcaption>${caption}</figcaption></figure>`;
 }
 
+/**
+ * A pair in the one pair notation (pairText), each class name kept on one line: ids may contain
+ * hyphens, where browsers would otherwise break a line ("g1-" / "3"); the line may still break
+ * around the arrow.
+ */
+function pairMarkup(p: readonly [string, string], name: Namer): Markup {
+  const text = pairText(p, (id) => (id === p[0] ? '\u0000' : '\u0001'));
+  const one = (id: string): string => html`<span class="name">${name(id)}</span>`.html;
+  return raw(escapeHtml(text).replace(/\u0000/g, one(p[0])).replace(/\u0001/g, one(p[1])));
+}
+
+/** "a, b and c" over markup (the same words as listWords). */
+function listMarkup(items: readonly Markup[]): Markup {
+  if (items.length <= 1) return html`${items}`;
+  return html`${items.slice(0, -1).map((m, i) => html`${i > 0 ? ', ' : ''}${m}`)} and ${items[items.length - 1]}`;
+}
+
 function changeList(d: { added: ReadonlyArray<readonly [string, string]>; removed: ReadonlyArray<readonly [string, string]> }, name: Namer): Markup {
   if (d.added.length === 0 && d.removed.length === 0) return html`<span class="muted">no change</span>`;
-  const parts: string[] = [];
-  if (d.added.length > 0) parts.push(`fund ${listWords(d.added.map((p) => pairWords(p, name)))}`);
-  if (d.removed.length > 0) parts.push(`drop ${listWords(d.removed.map((p) => pairWords(p, name)))}`);
-  return html`${parts.join('; ')}`;
+  const parts: Markup[] = [];
+  if (d.added.length > 0) parts.push(html`fund ${listMarkup(d.added.map((p) => pairMarkup(p, name)))}`);
+  if (d.removed.length > 0) parts.push(html`drop ${listMarkup(d.removed.map((p) => pairMarkup(p, name)))}`);
+  return html`${parts.map((m, i) => html`${i > 0 ? '; ' : ''}${m}`)}`;
+}
+
+/** Most rows of the front the report's table shows; the JSON record (report --json, recommend) has them all. */
+const FRONT_ROWS = 14;
+
+/**
+ * The rows of the front the table shows: all of them when few, otherwise the recommended design,
+ * the cheapest and the dearest, and designs spread evenly over the cost range between them.
+ */
+export function frontRows<T extends { cost: number; recommended: boolean }>(front: readonly T[], most = FRONT_ROWS): T[] {
+  if (front.length <= most) return [...front];
+  const keep = new Set<number>([0, front.length - 1]);
+  front.forEach((p, i) => p.recommended && keep.add(i));
+  const lo = front[0]!.cost;
+  const hi = front[front.length - 1]!.cost;
+  const slots = most - keep.size;
+  for (let s = 1; s <= slots && keep.size < most; s++) {
+    const target = lo + ((hi - lo) * s) / (slots + 1);
+    let best = -1;
+    for (let i = 0; i < front.length; i++) {
+      if (keep.has(i)) continue;
+      if (best < 0 || Math.abs(front[i]!.cost - target) < Math.abs(front[best]!.cost - target)) best = i;
+    }
+    if (best >= 0) keep.add(best);
+  }
+  return [...keep].sort((a, b) => a - b).map((i) => front[i]!);
 }
 
 function graphSection(r: ReportRecord, name: Namer): Markup {
@@ -154,7 +197,8 @@ function paretoSection(r: ReportRecord, name: Namer): Markup {
     costUnit,
     itemWord: r.itemWord,
   });
-  const rows = d.pareto.map(
+  const shown = frontRows(d.pareto);
+  const rows = shown.map(
     (p) =>
       html`<tr${p.recommended ? raw(' class="flag-good"') : ''}><td class="n">${num(p.cost)}</td><td class="n">${p.backlog === null ? '—' : num(p.backlog)}</td><td class="n">${p.maxWait === null ? '—' : num(p.maxWait)}</td><td>${changeList(p, name)}${p.recommended ? html` <span class="tag good">recommended</span>` : ''}</td></tr>`,
   );
@@ -164,7 +208,7 @@ function paretoSection(r: ReportRecord, name: Namer): Markup {
   });
   return html`<p class="explain">Each dot of the front is a design that no other design beats on both cost and waiting: moving right buys less waiting. The grey shapes are rules of thumb to compare against. Costs count added candidates minus the savings of dropped compatibilities, in ${costUnit}.</p>
 ${figure('chart-pareto', chart, `Added cost (${costUnit}) against the mean number of ${r.itemWord} waiting.`)}
-<h3>The best designs</h3><table><thead><tr><th class="n">cost</th><th class="n">${r.itemWord} waiting</th><th class="n">longest mean wait (${plural(r.timeUnit)})</th><th>changes to today's design</th></tr></thead><tbody>${rows}</tbody></table>
+<h3>The best designs</h3>${shown.length < d.pareto.length ? html`<p class="muted">${shown.length} of the ${d.pareto.length} designs of the front, spread over its cost range (the recommended one included); <code>edgewise recommend</code> lists them all.</p>` : ''}<table><thead><tr><th class="n">cost</th><th class="n">${r.itemWord} waiting</th><th class="n">longest mean wait (${plural(r.timeUnit)})</th><th>changes to today's design</th></tr></thead><tbody>${rows}</tbody></table>
 <h3>Rules of thumb for comparison</h3><table><thead><tr><th>design</th><th class="n">cost</th><th class="n">${r.itemWord} waiting</th><th>against the front</th></tr></thead><tbody>${base}</tbody></table>`;
 }
 
@@ -248,7 +292,7 @@ function changesSection(r: ReportRecord, name: Namer): Markup {
 function changeRow(v: VerdictRecord, t: VerdictRecord | undefined, base: number, r: ReportRecord, name: Namer): Markup {
   const a = ADVICE[v.advice ?? ''] ?? { tag: '', cls: '', words: v.advice ?? '' };
   const cls = a.cls === 'bad' ? ' class="flag-bad"' : '';
-  const what = `${changeWord(v)} ${pairWords(v.pair, name)}`;
+  const what = html`${changeWord(v)} ${pairMarkup(v.pair, name)}`;
   const money = v.change === 'add' ? num(v.price) : `−${num(v.price)}`;
   const diff = v.backlogDelta === null ? 'unbounded' : `${signed(v.backlogDelta)} (${base > 0 ? signedPct(v.backlogDelta / base) : '—'})`;
   const fromToday = !t ? '—' : t.backlogDelta === null ? 'unbounded' : signed(t.backlogDelta);
@@ -279,21 +323,27 @@ function inputsSection(r: ReportRecord, name: Namer): Markup {
   const u = r.timeUnit;
   const costUnit = r.costUnit ?? 'cost units';
   const ruleWords = (rule: string | null, reason: string | null): string => (rule === null ? '' : `${rule === 'must-keep' ? 'must keep' : 'forbidden'}${reason ? `: ${reason}` : ''}`);
-  const hasTargets = inp.classes.some((c) => c.waitTarget !== null || c.maxCompatibilities !== null || c.weight !== null || c.patience !== null);
+  // an optional column shows only when some class has a value in it
+  const optional = [
+    { head: `patience (${plural(u)})`, cell: (c: (typeof inp.classes)[number]) => (c.patience === null ? 'patient' : num(c.patience)), any: inp.classes.some((c) => c.patience !== null) },
+    { head: `wait target (${plural(u)})`, cell: (c: (typeof inp.classes)[number]) => (c.waitTarget === null ? '—' : num(c.waitTarget)), any: inp.classes.some((c) => c.waitTarget !== null) },
+    { head: 'max compatibilities', cell: (c: (typeof inp.classes)[number]) => (c.maxCompatibilities === null ? '—' : String(c.maxCompatibilities)), any: inp.classes.some((c) => c.maxCompatibilities !== null) },
+    { head: 'weight', cell: (c: (typeof inp.classes)[number]) => (c.weight === null ? '1' : num(c.weight)), any: inp.classes.some((c) => c.weight !== null) },
+  ].filter((o) => o.any);
+  const hasLabels = inp.classes.some((c) => c.label !== null);
   const classes = inp.classes.map(
-    (c) =>
-      html`<tr><td>${c.id}</td><td>${c.label ?? ''}</td><td class="n">${num(c.rate)}</td>${hasTargets ? html`<td class="n">${c.patience === null ? '—' : num(c.patience)}</td><td class="n">${c.waitTarget === null ? '—' : num(c.waitTarget)}</td><td class="n">${c.maxCompatibilities === null ? '—' : String(c.maxCompatibilities)}</td><td class="n">${c.weight === null ? '1' : num(c.weight)}</td>` : ''}</tr>`,
+    (c) => html`<tr><td class="id">${c.id}</td>${hasLabels ? html`<td>${c.label ?? ''}</td>` : ''}<td class="n">${num(c.rate)}</td>${optional.map((o) => html`<td class="n">${o.cell(c)}</td>`)}</tr>`,
   );
   const compat = inp.compatibilities.map(
-    (c) => html`<tr><td>${pairWords(c.pair, name)}</td><td>${c.removable ? 'may be dropped' : 'fixed'}</td><td class="n">${c.removable ? num(c.saving) : '—'}</td><td>${ruleWords(c.rule, c.reason)}</td></tr>`,
+    (c) => html`<tr><td>${pairMarkup(c.pair, name)}</td><td>${c.removable ? 'may be dropped' : 'fixed'}</td><td class="n">${c.removable ? num(c.saving) : '—'}</td><td>${ruleWords(c.rule, c.reason)}</td></tr>`,
   );
-  const cands = inp.candidates.map((c) => html`<tr><td>${pairWords(c.pair, name)}</td><td class="n">${num(c.cost)}</td><td>${ruleWords(c.rule, c.reason)}</td></tr>`);
+  const cands = inp.candidates.map((c) => html`<tr><td>${pairMarkup(c.pair, name)}</td><td class="n">${num(c.cost)}</td><td>${ruleWords(c.rule, c.reason)}</td></tr>`);
   const demand =
     inp.demand.length > 0
       ? html`<h3>Demand variants</h3><table><thead><tr><th>variant</th><th>rates per ${u} that differ from today's</th></tr></thead><tbody>${inp.demand.map((d) => html`<tr><td>${d.name}</td><td>${Object.entries(d.rates).map(([id, x]) => `${name(id)} ${num(x)}`).join(', ')}</td></tr>`)}</tbody></table>`
       : '';
   return html`<p class="explain">What this report was computed from. Budget: ${r.budget === null ? 'none' : money(r.budget, costUnit)}.</p>
-<h3>Classes</h3><table><thead><tr><th>id</th><th>label</th><th class="n">rate per ${u}</th>${hasTargets ? html`<th class="n">patience (${plural(u)})</th><th class="n">wait target (${plural(u)})</th><th class="n">max compatibilities</th><th class="n">weight</th>` : ''}</tr></thead><tbody>${classes}</tbody></table>
+<h3>Classes</h3><table><thead><tr><th>id</th>${hasLabels ? html`<th>label</th>` : ''}<th class="n">rate per ${u}</th>${optional.map((o) => html`<th class="n">${o.head}</th>`)}</tr></thead><tbody>${classes}</tbody></table>
 <h3>Compatibilities today</h3><table><thead><tr><th>pair</th><th>status</th><th class="n">saving if dropped</th><th>rule</th></tr></thead><tbody>${compat}</tbody></table>
 ${cands.length > 0 ? html`<h3>Candidates</h3><table><thead><tr><th>pair</th><th class="n">cost</th><th>rule</th></tr></thead><tbody>${cands}</tbody></table>` : ''}
 ${demand}`;

@@ -167,7 +167,7 @@ export function sweepChart(input: SweepChartInput): Markup {
       const [ex, ey] = pix[g[0]!]!.at(-1)!;
       // one line per name, "A =" over "B" when curves coincide
       const room = Math.max(marginRight - 10, WIDTH - 12 - ex);
-      const lines = g.map((i, k) => ({ text: fitText(`${names[i]!}${k + 1 < g.length ? ' =' : ''}`, room, LABEL_SIZE, true), size: LABEL_SIZE, bold: true }));
+      const lines = g.flatMap((i, k) => wrapText(`${names[i]!}${k + 1 < g.length ? ' =' : ''}`, room, LABEL_SIZE, true).map((text) => ({ text, size: LABEL_SIZE, bold: true })));
       const cands: Array<PlacedText & { lead: boolean }> = [];
       for (let k = 0; k <= 8; k++) {
         for (const s of k === 0 ? [0] : [-1, 1]) cands.push({ ...placeText(lines, ex + 8, ey + s * k * 9, 0, 0.5), lead: k > 1 });
@@ -182,8 +182,11 @@ export function sweepChart(input: SweepChartInput): Markup {
     // crossover labels along the bottom of the frame, stacked upwards when they would collide
     for (const c of input.crossovers) {
       const x = f.x(c.load);
-      const text = fitText(`${c.label} at ×${fmt(c.load)}`, WIDTH - marginLeft - marginRight, LABEL_SIZE, true);
-      const lines = [{ text, size: LABEL_SIZE, bold: true }];
+      // one line when it fits beside the rule, otherwise wrapped into lines of at most a third of the chart
+      const whole = `${c.label} at ×${fmt(c.load)}`;
+      const roomBeside = Math.max(x - f.left - 8, WIDTH - 6 - x);
+      const width = textWidth(whole, LABEL_SIZE, true) <= roomBeside ? roomBeside : Math.max(120, (WIDTH - marginLeft - marginRight) / 3);
+      const lines = wrapText(whole, width, LABEL_SIZE, true).map((text) => ({ text, size: LABEL_SIZE, bold: true }));
       const cands: PlacedText[] = [];
       for (let k = 0; k < 20; k++) {
         cands.push(placeText(lines, x + 4, f.top + 4 + k * 14, 0, 0));

@@ -10,7 +10,8 @@ import { pairKey } from '../model/scenario.js';
 import type { ObjectiveName } from '../design/space/objective.js';
 import { impatientClasses } from './warnings.js';
 import { pairRules, recordBase, scenarioContext, type ScenarioContext } from './context.js';
-import type { DesignFigures } from './designs.js';
+import { designFigures, type DesignFigures } from './designs.js';
+import { designDetails } from '../design/search/recommend.js';
 import { instabilityOf } from './instability.js';
 import { evaluateOrExplain, outcomesUnder, type Outcome } from './outcomes.js';
 import { recommendUseCase, type RecommendInput, type RecommendRecord } from './recommend.js';
@@ -170,6 +171,13 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
     if (decision.recommended.added.length + decision.recommended.removed.length > 0) show('recommended', 'the recommended design', decision.recommended);
     const alt = alternativeOf(decision);
     if (alt) show('alternative', 'a cheaper option', alt);
+  } else if (stability.stable && ctx.problem.forcedOut.length === 0) {
+    // no recommendation (no stable design within the rules, or a design past the exact guard): today's figures still show
+    try {
+      show('today', "today's design", designFigures(ctx.problem, designDetails(ctx.problem, input.objective ?? 'total', Uint8Array.from(ctx.problem.today))));
+    } catch (e) {
+      if (!(e instanceof EdgewiseError)) throw e;
+    }
   }
 
   phase('sweep');

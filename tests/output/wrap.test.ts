@@ -62,3 +62,14 @@ describe('wrap', () => {
     }
   });
 });
+
+describe('a number keeps its percent sign', () => {
+  it('never starts a line with "%", whatever the width', () => {
+    const text = 'with 3.768 per hour (73.82 % to spare) and 12 % giving up, 5 %.';
+    for (let w = 8; w <= 60; w++) {
+      const lines = wrap(text, w);
+      for (const l of lines) expect(l.trimStart().startsWith('%'), `width ${w}: ${JSON.stringify(lines)}`).toBe(false);
+      expect(lines.join(' ').replace(/\s+/g, ' ')).toBe(text);
+    }
+  });
+});

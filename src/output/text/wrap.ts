@@ -33,11 +33,19 @@ function hardBreak(word: string, w: number): string[] {
   return out;
 }
 
-/** Words with a pair "a ↔ b" kept as one unit, so that a line never ends inside a pair. */
+/** A word that belongs to the number before it: a percent sign ("73.8 %"), with what closes after it. */
+const UNIT_AFTER_NUMBER = /^%[)\].,;:]*$/;
+
+/**
+ * Words with a pair "a ↔ b" kept as one unit, so that a line never ends inside a pair, and a
+ * number kept with its percent sign ("73.82 %").
+ */
 function glued(words: readonly string[]): string[] {
   const out: string[] = [];
   for (let i = 0; i < words.length; i++) {
-    if (words[i] === '↔' && out.length > 0 && i + 1 < words.length) {
+    if (UNIT_AFTER_NUMBER.test(words[i]!) && out.length > 0) {
+      out[out.length - 1] = `${out[out.length - 1]} ${words[i]}`;
+    } else if (words[i] === '↔' && out.length > 0 && i + 1 < words.length) {
       out[out.length - 1] = `${out[out.length - 1]} ↔ ${words[i + 1]}`;
       i++;
     } else out.push(words[i]!);
