@@ -73,3 +73,14 @@ describe('a number keeps its percent sign', () => {
     }
   });
 });
+
+describe('a change marker keeps its pair', () => {
+  it('never ends a line with "+" or "−" before the pair it marks', () => {
+    const text = '− g0-1 ↔ g0-3, − g1-1 ↔ g1-3, + g2-2 ↔ g4-4, − g5-1 ↔ g5-2 and + a ↔ b';
+    for (let w = 14; w <= 60; w++) {
+      const lines = wrap(text, w);
+      for (const l of lines) expect(/[+−]$/.test(l.trimEnd()), `width ${w}: ${JSON.stringify(lines)}`).toBe(false);
+      expect(lines.join(' ').replace(/\s+/g, ' ')).toBe(text);
+    }
+  });
+});

@@ -50,7 +50,13 @@ function glued(words: readonly string[]): string[] {
       i++;
     } else out.push(words[i]!);
   }
-  return out;
+  // a change marker ("+ a ↔ b", "− a ↔ b") stays with the pair it marks
+  const marked: string[] = [];
+  for (let i = 0; i < out.length; i++) {
+    if ((out[i] === '+' || out[i] === '−') && i + 1 < out.length) marked.push(`${out[i]} ${out[++i]}`);
+    else marked.push(out[i]!);
+  }
+  return marked;
 }
 
 /**
@@ -76,7 +82,7 @@ export function wrap(text: string, w: number, indent = ''): string[] {
         cur += ` ${word}`;
         continue;
       }
-      if (word.includes(' ↔ ') && width(word) > limit - width(indent)) {
+      if (word.includes(' ') && width(word) > limit - width(indent)) {
         words.splice(i, 1, ...word.split(' ')); // a pair wider than any line: break it at its spaces
         i--;
         continue;
