@@ -38,7 +38,7 @@ export function simulateText(r: SimulateRecord, o: { readonly waitUnit?: string 
       `${count(r.replications)} replication${r.replications === 1 ? '' : 's'}${r.partial ? ` of ${count(r.plannedReplications)} (interrupted)` : ''} × ${count(r.arrivals)} arrivals (after ${count(r.warmup)} warm-up), seed ${r.seed}`,
     ),
   ];
-  const row = (label: string, b: EstimateRecord, wt: WaitRecord, m: EstimateRecord, ab?: { rate: EstimateRecord; share: EstimateRecord }): string[] => [
+  const row = (label: string, b: EstimateRecord, wt: WaitRecord, m: EstimateRecord, ab?: { rate: EstimateRecord; share: EstimateRecord; patience?: number | null }): string[] => [
     label,
     pm(b),
     ...(hasExact ? [exactOr(b, num)] : []),
@@ -49,7 +49,8 @@ export function simulateText(r: SimulateRecord, o: { readonly waitUnit?: string 
     w(wt.p99),
     pmPct(m),
     ...(hasExact ? [exactOr(m, (x) => pct(x))] : []),
-    ...(impatient && ab ? [pm(ab.rate), pmPct(ab.share)] : []),
+    // a class without patience never gives up: say so rather than print 0 ± 0
+    ...(impatient && ab ? (ab.patience === null ? ['patient', 'patient'] : [pm(ab.rate), pmPct(ab.share)]) : []),
   ];
   blocks.push(
     tableBlock({
