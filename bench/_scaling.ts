@@ -3,11 +3,12 @@
 // the speed-up on a free machine from the CPU time of every thread.
 //
 // How the projection is measured: while a run goes, /proc/<pid>/task/*/stat is read every 20 ms
-// and each thread's user + system CPU time (in 10 ms ticks) noted. Per interval between two
-// readings, a free 2-core machine needs at least max(Σ threads' CPU / 2, the busiest thread's CPU):
-// the work of one interval cannot run on more than two cores, nor one thread's work on more than
-// one. The sum over the intervals is the run's projected wall time on a free machine; serial stages
-// (one thread busy, the others waiting) count in full. Projected speed-up = projected wall time of
+// and each thread's user + system CPU time (in 10 ms ticks) noted; readings are grouped into
+// windows of 0.1 s of CPU time (all threads together). Per window, a free 2-core machine needs at
+// least max(Σ threads' CPU / 2, the busiest thread's CPU): the work of one window cannot run on more
+// than two cores, nor one thread's work on more than one. The sum over the windows is the run's
+// projected wall time on a free machine; serial stages (one thread busy, the others waiting) count
+// in full. Projected speed-up = projected wall time of
 // --jobs 1 / that of --jobs 2. Coarse (the ticks are 10 ms, the last ≤ 20 ms of a thread can be
 // missed), but it moves little with the other load of a shared machine, unlike the wall ratio.
 import { spawn } from 'node:child_process';
@@ -15,6 +16,8 @@ import { readdirSync, readFileSync } from 'node:fs';
 import { load, median } from './_processes.js';
 
 const TICK = 100; // clock ticks per second of /proc stat times (USER_HZ: 100 on Linux)
+/** CPU seconds of a window (10 ticks): long enough for the 10 ms ticks, short against a run. */
+const WINDOW = 0.1;
 
 interface Run {
   readonly stdout: string;
@@ -48,25 +51,34 @@ function runSampled(args: readonly string[]): Promise<Run> {
   return new Promise((resolve, reject) => {
     const t0 = performance.now();
     const child = spawn(process.execPath, args, { stdio: ['ignore', 'pipe', 'pipe'] });
-    let prev = new Map<string, number>();
+    // readings every 20 ms; a window closes once its threads used WINDOW s of CPU together
+    let base = new Map<string, number>();
+    let last = new Map<string, number>();
     let cpu = 0;
     let freeWall = 0;
     let sampled = false;
-    const sample = (): void => {
-      const now = new Map<string, number>();
-      threadTimes(child.pid!, now);
-      if (now.size === 0) return; // the process has gone: keep the last reading
-      sampled = true;
+    const close = (): void => {
       let sum = 0;
       let most = 0;
-      for (const [t, c] of now) {
-        const d = c - (prev.get(t) ?? 0);
+      for (const [t, c] of last) {
+        const d = c - (base.get(t) ?? 0);
         sum += d;
         most = Math.max(most, d);
       }
       cpu += sum;
       freeWall += Math.max(sum / 2, most);
-      prev = now;
+      base = last;
+    };
+    const sample = (): void => {
+      const now = new Map<string, number>();
+      threadTimes(child.pid!, now);
+      if (now.size === 0) return; // the process has gone: keep the last reading
+      sampled = true;
+      for (const [t, c] of base) if (!now.has(t)) now.set(t, c); // a thread that ended
+      last = now;
+      let sum = 0;
+      for (const [t, c] of now) sum += c - (base.get(t) ?? 0);
+      if (sum >= WINDOW) close();
     };
     const chunks: Buffer[] = [];
     const err: Buffer[] = [];
@@ -76,6 +88,7 @@ function runSampled(args: readonly string[]): Promise<Run> {
     child.on('error', reject);
     child.on('close', (code) => {
       clearInterval(timer);
+      if (sampled) close();
       const wall = (performance.now() - t0) / 1000;
       if (code !== 0) {
         reject(new Error(`node ${args.join(' ')} exited with ${code}: ${Buffer.concat(err).toString().slice(-400)}`));
@@ -128,4 +141,4 @@ export async function jobsScaling(label: string, argsFor: (jobs: number) => stri
 }
 
 export const PROJECTION_NOTE =
-  'projection: every thread\'s CPU time read from /proc every 20 ms, each interval needing max(its CPU / 2, its busiest thread) on a free 2-core machine (bench/_scaling.ts)';
+  'projection: every thread\'s CPU time read from /proc every 20 ms, each window of 0.1 CPU s needing max(its CPU / 2, its busiest thread) on a free 2-core machine (bench/_scaling.ts)';

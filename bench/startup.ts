@@ -52,7 +52,7 @@ function main(): void {
     ['recommend', ['recommend', scenario, '--jobs', '1']],
     ['report', ['report', scenario, '-o', html, '--jobs', '1']],
   ];
-  const rounds = Number(process.env.EDGEWISE_STARTUP_ROUNDS ?? 7);
+  const rounds = Number(process.env.EDGEWISE_STARTUP_ROUNDS ?? 5);
   log(`start-up: CPU seconds (user + system) of the built CLI on scenarios/ride-pooling-hub.json (10 classes), median of ${rounds} interleaved rounds`);
   const before = process.env.EDGEWISE_STARTUP_BEFORE;
   const cpu = commands.map(() => [] as number[]);
