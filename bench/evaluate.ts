@@ -15,6 +15,7 @@ import { prepareComponents } from '../src/exact/prepare.js';
 import { buildTrie } from '../src/exact/trie.js';
 import { compileGraph, type CompiledModel } from '../src/model/compile.js';
 import { cyclePairs, randomRegularPairs } from '../src/model/generators.js';
+import { MACHINE_DIGITS } from '../src/output/format.js';
 import { seededRandom } from '../src/random.js';
 import { permutationOracle } from '../tests/helpers/permutation-oracle.js';
 import { buildC, builtCli, load, median, scratchDir, timeProcess } from './_processes.js';
@@ -70,6 +71,9 @@ function runOne(name: string): void {
   console.log(JSON.stringify({ name, classes: model.n, independentSets: r.independentSets, seconds, peakMiB, phase, backlog: r.backlogTotal }));
 }
 
+/** The JSON's figures carry MACHINE_DIGITS (9) significant digits: a relative error up to 5e-9 is rounding. */
+const JSON_AGREEMENT = 0.5 * 10 ** (1 - MACHINE_DIGITS);
+
 interface CRun {
   readonly backlog: number[];
   readonly backlogTotal: number;
@@ -112,11 +116,11 @@ function againstC(cases: readonly string[], rounds: number): void {
     const peak = ew[0]!.peakKiB === undefined ? '?' : `${(Math.max(...ew.map((x) => x.peakKiB!)) / 1024).toFixed(0)} / ${(Math.max(...cr.map((x) => x.peakKiB!)) / 1024).toFixed(0)}`;
     console.log(
       `${name.padEnd(16)}${String(record.independentSets).padEnd(12)}${fmt(0)}  ${fmt(1)}  ${(wall[0]! / wall[1]!).toFixed(2)} (${cpu ? (cpu[0]! / cpu[1]!).toFixed(2) : '?'})`.padEnd(93) +
-        `${peak.padEnd(24)}${worst < 1e-9 ? 'yes' : 'NO'} (${worst.toExponential(0)})`.padEnd(17) +
+        `${peak.padEnd(24)}${worst <= JSON_AGREEMENT ? 'yes' : 'NO'} (${worst.toExponential(0)})`.padEnd(17) +
         `  ${load()}`,
     );
   }
-  console.log('goal: edgewise/C at most 1.0 from 1 M sets on, peak under 2048 MiB; the CLI figures include Node start-up, reading, the stability check and JSON output');
+  console.log('goal: edgewise/C at most 1.0 from 1 M sets on, peak under 2048 MiB; the backlog agrees when within the JSON\'s rounding (9 significant digits); the CLI figures include Node start-up, reading, the stability check and JSON output');
 }
 
 /** Speed against the permutation-sum closed form (the test oracle) on 8–10 classes. */

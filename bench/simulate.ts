@@ -5,6 +5,7 @@
  * `--jobs 2` (built CLI).
  *
  * Run alone: npx tsx bench/simulate.ts   (about two minutes on an idle 2-core machine)
+ * EDGEWISE_BENCH_SCALING_ONLY=1 runs only the --jobs comparison.
  * Figures are printed, never asserted. Rates are arrivals per CPU second of the hot loop (wall-clock
  * rates in brackets): on a shared machine CPU time moves less with the other load.
  */
@@ -16,7 +17,8 @@ import type { PolicyName } from '../src/sim/policy.js';
 import { seedState } from '../src/sim/random.js';
 import { buildSimModel, type SimModel } from '../src/sim/sim-model.js';
 import { TimedEngine } from '../src/sim/timed-engine.js';
-import { buildC, builtCli, load, median, scratchDir, timeProcess } from './_processes.js';
+import { buildC, builtCli, load, scratchDir, timeProcess } from './_processes.js';
+import { jobsScaling, PROJECTION_NOTE } from './_scaling.js';
 
 /** Odd cycle of n classes, equal rates (stable: every independent set has more neighbours than members). */
 function oddCycle(n: number): CompiledModel {
@@ -103,12 +105,13 @@ function againstC(dir: string, designs: Array<[string, CompiledModel]>): void {
   }
 }
 
-/** `edgewise simulate --jobs 1` against `--jobs 2` (built CLI), interleaved, medians. */
-function scaling(dir: string, model: CompiledModel): void {
+/** `edgewise simulate --jobs 1` against `--jobs 2` (built CLI): see bench/_scaling.ts. */
+async function scaling(dir: string, model: CompiledModel): Promise<void> {
   const cli = builtCli();
   const reps = 8;
   const arrivals = 8_000_000;
-  log(`\nedgewise simulate (built CLI), FCFM on the odd cycle: ${reps} replications × ${arrivals.toLocaleString('en-US')} arrivals (+10 % warm-up), median of 3 interleaved runs; goal ≥ 1.6 on a free 2-core machine`);
+  const rounds = 3;
+  log(`\nedgewise simulate (built CLI), FCFM on the odd cycle: ${reps} replications × ${arrivals.toLocaleString('en-US')} arrivals (+10 % warm-up), --jobs 1 against --jobs 2; goal ≥ 1.6 on a free 2-core machine`);
   if ('skip' in cli) {
     log(`  skipped: ${cli.skip}`);
     return;
@@ -119,26 +122,21 @@ function scaling(dir: string, model: CompiledModel): void {
     JSON.stringify({ name: 'odd cycle', timeUnit: 'minute', classes: model.ids.map((id, k) => ({ id, rate: model.rates[k] })), compatibilities: Array.from({ length: model.m }, (_, e) => [model.ids[model.edgeA[e]!], model.ids[model.edgeB[e]!]]) }),
   );
   const args = (jobs: number): string[] => [cli.path, 'simulate', file, '--arrivals', String(arrivals), '--replications', String(reps), '--jobs', String(jobs), '--json'];
-  const one: number[] = [];
-  const two: number[] = [];
-  const loads: string[] = [];
-  for (let r = 0; r < 3; r++) {
-    loads.push(load());
-    one.push(timeProcess(process.execPath, args(1)).wall);
-    two.push(timeProcess(process.execPath, args(2)).wall);
-  }
-  const total = reps * arrivals * 1.1;
-  log(`  --jobs 1 ${median(one).toFixed(2)} s (${M(total / median(one))} M arrivals/s), --jobs 2 ${median(two).toFixed(2)} s (${M(total / median(two))} M/s): speed-up ×${(median(one) / median(two)).toFixed(2)}  (1-minute load average before each round: ${loads.join(', ')})`);
-  log('  (whole processes: Node start-up, worker start-up, the exact FCFM column and the statistics included)');
+  await jobsScaling('simulate', args, rounds, log);
+  log(`  (whole processes: Node start-up, worker start-up, the exact FCFM column and the statistics included; ${PROJECTION_NOTE})`);
 }
 
 const log = (line: string): void => console.log(line);
 
-function main(): void {
+async function main(): Promise<void> {
   const cycle = oddCycle(25);
   const dense = dense10();
   const dir = scratchDir('edgewise-sim-bench-');
   log(`simulate bench — node ${process.version}`);
+  if (process.env.EDGEWISE_BENCH_SCALING_ONLY) {
+    await scaling(dir, cycle);
+    return;
+  }
   log('');
   againstC(dir, [
     ['25-class odd cycle', cycle],
@@ -160,7 +158,7 @@ function main(): void {
         `timed without impatience ${fmtRate(timedPatient)}  load ${load()}`,
     );
   }
-  scaling(dir, cycle);
+  await scaling(dir, cycle);
 }
 
-main();
+await main();

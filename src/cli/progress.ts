@@ -3,7 +3,8 @@
  * line wrap off while it runs; `stop()` and every exit path (normal exit, an error, SIGINT/SIGTERM:
  * see main.ts) give the terminal back as it was.
  */
-import cliProgress from 'cli-progress';
+import { createRequire } from 'node:module';
+import type cliProgressModule from 'cli-progress';
 import type { CommandIO } from './io.js';
 
 const RESTORE = '\u001b[?25h\u001b[?7h';
@@ -27,10 +28,12 @@ const NONE: Progress = { update: () => undefined, stop: () => undefined };
 /** A bar with `format` (cli-progress tokens), or a no-op when standard error is not a terminal. */
 export function progressBar(io: CommandIO, format: string): Progress {
   if (!io.isTTY) return NONE;
-  let bar: cliProgress.SingleBar | undefined;
+  let bar: cliProgressModule.SingleBar | undefined;
   return {
     update(value, total, payload = {}) {
       if (!bar) {
+        // cli-progress is loaded on the first bar drawn (terminals only), not at start-up
+        const cliProgress = createRequire(import.meta.url)('cli-progress') as typeof cliProgressModule;
         bar = new cliProgress.SingleBar({ format, stream: process.stderr, clearOnComplete: true, hideCursor: true, linewrap: false }, cliProgress.Presets.shades_classic);
         bar.start(Math.max(total, 1), value, payload);
         active++;

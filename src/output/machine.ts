@@ -10,9 +10,14 @@
  *
  * CSV: RFC 4180 quoting by csv-stringify, numbers rounded like JSON, pairs in the ASCII notation.
  */
-import { stringify } from 'csv-stringify/sync';
 import { InternalError } from '../errors.js';
 import { MACHINE_DIGITS, roundEstimate, roundFigure } from './format.js';
+import { createRequire } from 'node:module';
+
+type CsvSync = typeof import('csv-stringify/sync');
+let csvSync: CsvSync | undefined;
+/** csv-stringify, loaded on the first CSV only: commands that print text or JSON never load it. */
+const csvStringify = (): CsvSync['stringify'] => (csvSync ??= createRequire(import.meta.url)('csv-stringify/sync') as CsvSync).stringify;
 
 type Json = null | boolean | number | string | Json[] | { [k: string]: Json };
 
@@ -77,5 +82,5 @@ export function renderCsv(header: readonly string[], rows: ReadonlyArray<readonl
     }
     return String(v);
   };
-  return stringify([header as string[], ...rows.map((r) => r.map(cell))], { eof: true, record_delimiter: '\n' });
+  return csvStringify()([header as string[], ...rows.map((r) => r.map(cell))], { eof: true, record_delimiter: '\n' });
 }

@@ -124,7 +124,6 @@ export async function simulateUseCase(ctx: ScenarioContext, input: SimulateInput
   const patience = ctx.scenario.classes.map((c) => c.patience ?? Infinity);
   const impatient = patience.some((p) => Number.isFinite(p));
   const stability = stabilityOf(ctx, impatient);
-  const exact = exactOf(ctx, input, impatient, stability.stable);
   const options: SimulationOptions = {
     policy: input.policy,
     ...(input.ranking ? { priority: input.ranking } : {}),
@@ -139,7 +138,17 @@ export async function simulateUseCase(ctx: ScenarioContext, input: SimulateInput
     ...(input.onProgress ? { onProgress: input.onProgress } : {}),
     ...(input.signal ? { signal: input.signal } : {}),
   };
-  const r = await simulate(model, options);
+  // the replications start first: on worker threads (--jobs 2 and more), the exact FCFM column is
+  // computed in this thread while they run instead of before them
+  const running = simulate(model, options);
+  let exact: ReturnType<typeof exactOf>;
+  try {
+    exact = exactOf(ctx, input, impatient, stability.stable);
+  } catch (e) {
+    await running.catch(() => undefined);
+    throw e;
+  }
+  const r = await running;
   const x = exact.exact;
   const ids = model.ids;
   const by = <T>(f: (k: number) => T): Record<string, T> => Object.fromEntries(ids.map((id, k) => [id, f(k)]));
