@@ -17,7 +17,7 @@ import { recordBase } from './context.js';
 import { changePairs, designFigures, verdictRecord, type DesignFigures, type VerdictRecord } from './designs.js';
 import { instabilityOf } from './instability.js';
 import { finite, pairIds, type InstabilityRecord, type RepairRecord, type PairIds, type RecordBase } from './records.js';
-import { exactWarnings } from './warnings.js';
+import { exactWarnings, valueWarnings } from './warnings.js';
 import { checkDesignSize } from './limits.js';
 import { LP_DIGITS, num, roundFigure } from '../output/format.js';
 
@@ -167,6 +167,7 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
   const milpEntry = (m: Recommendation['milp']['cheapest']): MilpEntry => ({ cost: m.cost, ...changePairs(p, m.design), flowMargin: Number.isFinite(m.verifiedMinFlow) ? roundFigure(m.verifiedMinFlow, LP_DIGITS) : null, proven: m.proven });
   const warnings = [
     ...exactWarnings(ctx, 'The figures of every design'),
+    ...(p.hasValues ? valueWarnings(ctx) : []),
     rec.partial ? 'interrupted: the Pareto set is what the search had found so far; designs not yet checked for harmful paid compatibilities may be in it, and no verdicts were computed' : null,
   ];
   return {
