@@ -44,7 +44,7 @@ function benchProblem(n: number, candidates: number, seed: number, budgetShare: 
     const b = random() < 0.1 ? a : int(0, n - 1);
     if (used.has(id(a, b))) continue;
     used.add(id(a, b));
-    toggles.push({ a: Math.min(a, b), b: Math.max(a, b), kind: 'candidate', price: int(2, 25), source: toggles.length });
+    toggles.push({ a: Math.min(a, b), b: Math.max(a, b), kind: 'candidate', price: int(2, 25), source: toggles.length, value: 0 });
   }
   const fixedDegree = new Int32Array(n);
   for (const [a, b] of fixed) {
@@ -67,6 +67,9 @@ function benchProblem(n: number, candidates: number, seed: number, budgetShare: 
     waitTarget: new Float64Array(n).fill(Infinity),
     weight: new Float64Array(n).fill(1),
     today: new Uint8Array(toggles.length),
+    fixedValue: new Float64Array(fixed.length),
+    waitingCost: 0,
+    hasValues: false,
   };
 }
 

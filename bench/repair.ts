@@ -93,7 +93,7 @@ function benchProblem(o: CaseOptions): DesignProblem {
     const b = random() < 0.1 ? a : int(0, n - 1);
     if (used.has(id(a, b))) continue;
     used.add(id(a, b));
-    toggles.push({ a: Math.min(a, b), b: Math.max(a, b), kind: 'candidate', price: o.flatCost ?? int(2, 25), source: toggles.length });
+    toggles.push({ a: Math.min(a, b), b: Math.max(a, b), kind: 'candidate', price: o.flatCost ?? int(2, 25), source: toggles.length, value: 0 });
   }
   const fixedDegree = new Int32Array(n);
   for (const [a, b] of fixed) {
@@ -115,6 +115,9 @@ function benchProblem(o: CaseOptions): DesignProblem {
     waitTarget: new Float64Array(n).fill(Infinity),
     weight: new Float64Array(n).fill(1),
     today: new Uint8Array(toggles.length),
+    fixedValue: new Float64Array(fixed.length),
+    waitingCost: 0,
+    hasValues: false,
   };
 }
 

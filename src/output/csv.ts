@@ -42,15 +42,21 @@ export function sweepCsv(r: SweepRecord): string {
   return renderCsv(head, rows, r.precision);
 }
 
-/** One row per Pareto design (kind "pareto", the recommended one marked) and per rule of thumb (kind "baseline"). */
+/**
+ * One row per Pareto design (kind "pareto", the recommended one marked) and per rule of thumb (kind
+ * "baseline"); with values in the file, the columns valueRate, waitingCostRate and netValue follow
+ * objective (for the objective net-value, objective is the net value: higher is better).
+ */
 export function recommendCsv(r: RecommendRecord): string {
-  const head = ['kind', 'name', 'recommended', 'cost', 'method', 'backlog', 'objective', 'maxWait', 'spareCapacity', 'frontAtCost', 'gap', 'feasible', 'added', 'removed'];
+  const values = [...r.pareto, ...r.baselines, r.today].some((d) => d.netValue !== null);
+  const v = (d: RecommendRecord['pareto'][number] | RecommendRecord['baselines'][number]): CsvCell[] => (values ? [d.valueRate, d.waitingCostRate, d.netValue] : []);
+  const head = ['kind', 'name', 'recommended', 'cost', 'method', 'backlog', 'objective', ...(values ? ['valueRate', 'waitingCostRate', 'netValue'] : []), 'maxWait', 'spareCapacity', 'frontAtCost', 'gap', 'feasible', 'added', 'removed'];
   const rows: CsvCell[][] = [];
   r.pareto.forEach((p, i) =>
-    rows.push(['pareto', `design ${i + 1}`, p.recommended, p.cost, p.method, p.backlog, p.objective, p.maxWait, p.spareCapacity, null, null, true, asciiPairs(p.added), asciiPairs(p.removed)]),
+    rows.push(['pareto', `design ${i + 1}`, p.recommended, p.cost, p.method, p.backlog, p.objective, ...v(p), p.maxWait, p.spareCapacity, null, null, true, asciiPairs(p.added), asciiPairs(p.removed)]),
   );
   for (const b of r.baselines) {
-    rows.push(['baseline', b.name, false, b.cost, b.method, b.backlog, b.objective, b.maxWait, b.spareCapacity, b.frontAtCost, b.gap, b.feasible, asciiPairs(b.added), asciiPairs(b.removed)]);
+    rows.push(['baseline', b.name, false, b.cost, b.method, b.backlog, b.objective, ...v(b), b.maxWait, b.spareCapacity, b.frontAtCost, b.gap, b.feasible, asciiPairs(b.added), asciiPairs(b.removed)]);
   }
   return renderCsv(head, rows, r.precision);
 }

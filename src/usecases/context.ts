@@ -8,6 +8,7 @@ import { compileGraph, compileModel, type CompiledModel } from '../model/compile
 import { readDesignFields, type DesignFields } from '../model/design-fields.js';
 import { demandVariants, type DemandVariant } from '../model/demand.js';
 import { pairKey, type Scenario } from '../model/scenario.js';
+import { pairValues, type PairValues } from '../model/values.js';
 import { designProblem, designPairs, type DesignProblem } from '../design/space/problem.js';
 import type { PairIds, Reference } from './records.js';
 
@@ -32,6 +33,8 @@ export interface ScenarioContext {
   readonly description: string | null;
   /** Some class has a patience. */
   readonly patience: boolean;
+  /** Value per match of the pairs that have one, and the waiting cost (src/model/values.ts). */
+  readonly values: PairValues;
   /** The design and demand asked about, and their compiled model. */
   readonly reference: Reference;
   readonly model: CompiledModel;
@@ -144,6 +147,7 @@ export function scenarioContext(scenario: Scenario, options: ContextOptions): Sc
     itemWord: text(scenario.itemWord) ?? 'items',
     description: text(scenario.description),
     patience: scenario.classes.some((c) => c.patience !== undefined),
+    values: pairValues(scenario),
     reference,
     model: options.design ? model : today,
     design,

@@ -5,6 +5,7 @@
 import type { DesignDetails } from '../design/search/recommend.js';
 import type { Verdict } from '../design/decision/decide.js';
 import { designChanges, type DesignProblem } from '../design/space/problem.js';
+import { objectiveSign, type ObjectiveName } from '../design/space/objective.js';
 import { byClass, finite, pairIds, type PairIds } from './records.js';
 import { LP_DIGITS, roundFigure } from '../output/format.js';
 
@@ -20,8 +21,18 @@ export interface DesignFigures {
   /** Mean total number of items waiting (null when unstable). */
   readonly backlog: number | null;
   readonly backlogCi95?: [number, number];
-  /** The objective's value (null when unstable). */
+  /**
+   * The objective's value as shown (null when unstable): a backlog or a wait (lower is better), or
+   * the net value (higher is better; see the decision's `objectiveBetter`).
+   */
   readonly objective: number | null;
+  /**
+   * With values in the file (src/model/values.ts), when stable: Σ value · match rate per time unit,
+   * waitingCost · backlog, and their difference (null otherwise; pairs without a value count 0).
+   */
+  readonly valueRate: number | null;
+  readonly waitingCostRate: number | null;
+  readonly netValue: number | null;
   /** The largest class mean wait and its class (null when unstable). */
   readonly maxWait: number | null;
   readonly maxWaitClass: string | null;
@@ -41,7 +52,7 @@ export function changePairs(problem: DesignProblem, design: ArrayLike<number>): 
   return { added: added.map(t), removed: [...problem.forcedOut.map((f) => pairIds(problem, f.a, f.b)), ...removed.map(t)] };
 }
 
-export function designFigures(problem: DesignProblem, d: DesignDetails): DesignFigures {
+export function designFigures(problem: DesignProblem, d: DesignDetails, objective: ObjectiveName): DesignFigures {
   let maxClass: string | null = null;
   if (d.wait) {
     let k = 0;
@@ -54,7 +65,8 @@ export function designFigures(problem: DesignProblem, d: DesignDetails): DesignF
     stable: d.stable,
     method: 'exact',
     backlog: d.stable ? finite(d.backlogTotal) : null,
-    objective: d.stable ? finite(d.objective) : null,
+    objective: d.stable ? finite(objectiveSign(objective) * d.objective) : null,
+    ...valueFigures(problem, d),
     maxWait: d.stable ? finite(d.maxWait) : null,
     maxWaitClass: maxClass,
     waits: d.wait ? byClass(problem.ids, d.wait) : null,
@@ -62,6 +74,13 @@ export function designFigures(problem: DesignProblem, d: DesignDetails): DesignF
     flowMargin: d.stable && Number.isFinite(d.minEdgeFlow) ? roundFigure(d.minEdgeFlow, LP_DIGITS) : null,
     independentSets: d.stable ? d.independentSets : null,
   };
+}
+
+/** Value rate, waiting cost rate and net value of a design (null when not applicable). */
+function valueFigures(problem: DesignProblem, d: DesignDetails): Pick<DesignFigures, 'valueRate' | 'waitingCostRate' | 'netValue'> {
+  if (!d.stable || !problem.hasValues || !Number.isFinite(d.valueRate)) return { valueRate: null, waitingCostRate: null, netValue: null };
+  const waiting = problem.waitingCost * d.backlogTotal;
+  return { valueRate: finite(d.valueRate), waitingCostRate: finite(waiting), netValue: finite(d.valueRate - waiting) };
 }
 
 export interface VerdictRecord {
@@ -72,7 +91,7 @@ export interface VerdictRecord {
   readonly change: 'add' | 'remove';
   /** The design the change is measured against. */
   readonly against: 'recommended' | 'today';
-  /** Exact change of the objective (null when the change breaks stability). */
+  /** Exact change of the objective as shown (net value: + is better; null when the change breaks stability). */
   readonly delta: number | null;
   /** Change of the mean total backlog (null when unstable). */
   readonly backlogDelta: number | null;
@@ -84,26 +103,29 @@ export interface VerdictRecord {
   readonly withinBudget: boolean;
   /** The changed design is within budget, maxCompatibilities and wait targets. */
   readonly feasible: boolean;
+  /** What the change does to the objective as shown ('raises' the net value is better). */
   readonly effect: Verdict['effect'];
   /** What to do, only against the recommended design. */
   readonly advice?: NonNullable<Verdict['advice']>;
 }
 
-export function verdictRecord(problem: DesignProblem, v: Verdict): VerdictRecord {
+export function verdictRecord(problem: DesignProblem, v: Verdict, objective: ObjectiveName): VerdictRecord {
   const t = problem.toggles[v.toggle]!;
+  const sign = objectiveSign(objective);
+  const effect = sign === 1 ? v.effect : v.effect === 'lowers' ? 'raises' : v.effect === 'raises' ? 'lowers' : v.effect;
   return {
     pair: pairIds(problem, t.a, t.b),
     kind: t.kind,
     change: v.change,
     against: v.against,
-    delta: finite(v.delta),
+    delta: finite(sign * v.delta),
     backlogDelta: finite(v.backlogDelta),
     price: t.price,
     cost: v.cost,
     stable: v.stable,
     withinBudget: v.withinBudget,
     feasible: v.feasible,
-    effect: v.effect,
+    effect,
     ...(v.advice ? { advice: v.advice } : {}),
   };
 }

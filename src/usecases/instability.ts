@@ -5,7 +5,7 @@
  */
 import { describeCertificate, type InstabilityCertificate } from '../errors.js';
 import { forbiddenCandidates, repairs, type RepairResult } from '../design/repair/index.js';
-import { degrees, designPairs, type DesignProblem } from '../design/space/problem.js';
+import { degrees, designPairs, designPairValues, type DesignProblem } from '../design/space/problem.js';
 import { listWords, num, setText } from '../output/format.js';
 import type { ScenarioContext } from './context.js';
 import { certificateRecord, pairIds, type InstabilityRecord, type NoRepairRecord, type PairIds } from './records.js';
@@ -19,7 +19,7 @@ function referenceProblem(ctx: ScenarioContext): DesignProblem {
   if (ctx.reference.kind === 'today') return p;
   const fixed = designPairs(p, ctx.design);
   const toggles = p.toggles.filter((t, j) => t.kind === 'candidate' && !ctx.design[j]);
-  const base: DesignProblem = { ...p, fixed, toggles, forcedOut: [], costOffset: 0, today: new Uint8Array(toggles.length) };
+  const base: DesignProblem = { ...p, fixed, fixedValue: designPairValues(p, ctx.design), toggles, forcedOut: [], costOffset: 0, today: new Uint8Array(toggles.length) };
   return { ...base, fixedDegree: degrees({ ...base, toggles: [] }, []) };
 }
 

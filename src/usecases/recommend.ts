@@ -1,23 +1,23 @@
 /**
  * `recommend` (and the decision `report` and `compare` carry): the cost/objective Pareto set of the
- * designs within the budget, the recommended design — the one with the lowest objective, made
+ * designs within the budget, the recommended design — the one with the best objective, made
  * single-change optimal — every single-change verdict measured against it and against today's
  * design, the rules of thumb beside the set, and the ways out when today's design is unstable.
  */
-import { InfeasibleDesignError } from '../errors.js';
+import { InfeasibleDesignError, UsageError } from '../errors.js';
 import { checkStability } from '../stability/check.js';
 import { certificateWithIds } from '../stability/certificate.js';
 import { decide, type Decision } from '../design/decision/decide.js';
-import { objectiveLabel, type ObjectiveName } from '../design/space/objective.js';
+import { needsMatchRates, objectiveBetter, objectiveLabel, objectiveSign, type ObjectiveName } from '../design/space/objective.js';
 import { paretoFront } from '../design/space/pareto.js';
 import { changeCount } from '../design/space/problem.js';
-import { designDetails, recommend, type DesignDetails, type Recommendation, type RecommendOptions } from '../design/search/recommend.js';
+import { designDetails, NO_VALUES_MESSAGE, recommend, type DesignDetails, type Recommendation, type RecommendOptions } from '../design/search/recommend.js';
 import type { ScenarioContext } from './context.js';
 import { recordBase } from './context.js';
 import { changePairs, designFigures, verdictRecord, type DesignFigures, type VerdictRecord } from './designs.js';
 import { instabilityOf } from './instability.js';
 import { finite, pairIds, type InstabilityRecord, type RepairRecord, type PairIds, type RecordBase } from './records.js';
-import { exactWarnings } from './warnings.js';
+import { exactWarnings, valueWarnings } from './warnings.js';
 import { checkDesignSize } from './limits.js';
 import { LP_DIGITS, num, roundFigure } from '../output/format.js';
 
@@ -37,9 +37,12 @@ export interface BaselineEntry extends DesignFigures {
   readonly harmful: PairIds[];
   /** Comparable with the Pareto set: stable, within budget and limits, targets met. */
   readonly feasible: boolean;
-  /** Best objective of the Pareto set at this cost or below (null when not comparable). */
+  /** Best objective of the Pareto set at this cost or below, as shown (null when not comparable). */
   readonly frontAtCost: number | null;
-  /** objective − frontAtCost, and that over the objective. */
+  /**
+   * How far the rule of thumb is behind the Pareto set at its cost, in the objective's unit (> 0:
+   * worse; for net value frontAtCost − objective, else objective − frontAtCost), and that over |objective|.
+   */
   readonly gap: number | null;
   readonly relativeGap: number | null;
 }
@@ -48,10 +51,14 @@ export interface BaselineEntry extends DesignFigures {
 export interface DecisionPart {
   readonly objective: ObjectiveName;
   readonly objectiveLabel: string;
+  /** Which way the objective as shown is better: 'lower' (backlog, wait) or 'higher' (net value). */
+  readonly objectiveBetter: 'lower' | 'higher';
+  /** The file's cost per waiting item per time unit (null when it gives none). */
+  readonly waitingCost: number | null;
   /** null: no budget limit. */
   readonly budget: number | null;
   readonly costUnit: string | null;
-  /** The recommended design: the lowest objective within the budget, single-change optimal. */
+  /** The recommended design: the best objective within the budget, single-change optimal. */
   readonly recommended: DesignFigures & { readonly improvements: number; readonly why: string };
   readonly today: DesignFigures;
   /** Every single change measured against the recommended design, then against today's. */
@@ -117,20 +124,24 @@ export function decisionPart(ctx: ScenarioContext, input: RecommendInput, parts:
   return {
     objective: input.objective,
     objectiveLabel: objectiveLabel(input.objective),
+    objectiveBetter: objectiveBetter(input.objective),
+    waitingCost: ctx.scenario.waitingCost ?? null,
     budget: finite(p.budget),
     costUnit: ctx.costUnit,
     recommended: {
-      ...designFigures(p, parts.recommended),
+      ...designFigures(p, parts.recommended, input.objective),
       improvements: d?.improvements ?? 0,
-      why: `the lowest ${objectiveLabel(input.objective)} within the ${Number.isFinite(p.budget) ? 'budget' : 'candidates'}${d && d.improvements > 0 ? `, after ${d.improvements} single-change improvement${d.improvements === 1 ? '' : 's'} of the search's pick` : ''}`,
+      why: `the ${objectiveBetter(input.objective) === 'higher' ? 'highest' : 'lowest'} ${objectiveLabel(input.objective)} within the ${Number.isFinite(p.budget) ? 'budget' : 'candidates'}${d && d.improvements > 0 ? `, after ${d.improvements} single-change improvement${d.improvements === 1 ? '' : 's'} of the search's pick` : ''}`,
     },
-    today: designFigures(p, todayDetails),
-    verdicts: d ? d.verdicts.map((v) => verdictRecord(p, v)) : [],
+    today: designFigures(p, todayDetails, input.objective),
+    verdicts: d ? d.verdicts.map((v) => verdictRecord(p, v, input.objective)) : [],
   };
 }
 
 export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInput): Promise<RecommendRecord> {
   const p = ctx.problem;
+  if (needsMatchRates(input.objective) && !p.hasValues) throw new UsageError(NO_VALUES_MESSAGE);
+  const sign = objectiveSign(input.objective);
   checkDesignSize(p.n, p.toggles.length, 'recommend');
   const todayStability = checkStability(ctx.today);
   const instability = todayStability.stable ? null : await instabilityOf(ctx, certificateWithIds(ctx.today, todayStability.certificate!));
@@ -156,14 +167,15 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
   const milpEntry = (m: Recommendation['milp']['cheapest']): MilpEntry => ({ cost: m.cost, ...changePairs(p, m.design), flowMargin: Number.isFinite(m.verifiedMinFlow) ? roundFigure(m.verifiedMinFlow, LP_DIGITS) : null, proven: m.proven });
   const warnings = [
     ...exactWarnings(ctx, 'The figures of every design'),
+    ...(p.hasValues ? valueWarnings(ctx) : []),
     rec.partial ? 'interrupted: the Pareto set is what the search had found so far; designs not yet checked for harmful paid compatibilities may be in it, and no verdicts were computed' : null,
   ];
   return {
     ...recordBase(ctx, 'recommend', warnings),
     ...decision,
-    pareto: front.map((d) => ({ ...designFigures(p, d), recommended: d.key === recommendedKey })),
+    pareto: front.map((d) => ({ ...designFigures(p, d, input.objective), recommended: d.key === recommendedKey })),
     baselines: rec.baselines.map((b) => ({
-      ...designFigures(p, b),
+      ...designFigures(p, b, input.objective),
       name: b.name,
       note: b.note,
       withinBudget: b.withinBudget,
@@ -171,9 +183,9 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
       meetsTargets: b.meetsTargets,
       harmful: b.harmful.map(pair),
       feasible: b.feasible,
-      frontAtCost: b.feasible ? finite(b.frontValue) : null,
+      frontAtCost: b.feasible ? finite(sign * b.frontValue) : null,
       gap: finite(b.gap),
-      relativeGap: Number.isFinite(b.gap) && b.objective > 0 ? b.gap / b.objective : null,
+      relativeGap: Number.isFinite(b.gap) && b.objective !== 0 ? b.gap / Math.abs(b.objective) : null,
     })),
     search: {
       evaluations: rec.evaluations,

@@ -120,8 +120,9 @@ function inputsOf(ctx: ScenarioContext): InputsRecord {
 function alternativeOf(rec: RecommendRecord): DesignFigures | null {
   const best = rec.recommended;
   if (best.objective === null || rec.today.objective === null) return null;
-  const half = rec.today.objective - 0.5 * (rec.today.objective - best.objective);
-  const cheaper = rec.pareto.filter((d) => d.cost < best.cost && d.objective !== null && d.objective <= half && d.added.length + d.removed.length > 0);
+  const s = rec.objectiveBetter === 'higher' ? -1 : 1; // compare as "lower is better"
+  const half = s * rec.today.objective - 0.5 * (s * rec.today.objective - s * best.objective);
+  const cheaper = rec.pareto.filter((d) => d.cost < best.cost && d.objective !== null && s * d.objective <= half && d.added.length + d.removed.length > 0);
   return cheaper.sort((a, b) => a.cost - b.cost)[0] ?? null;
 }
 
@@ -189,8 +190,9 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
     const variants: Array<{ add: PairIds[]; remove: PairIds[] }> = [];
     if (rec && rec.added.length + rec.removed.length > 0) variants.push({ add: rec.added, remove: rec.removed });
     const adds = (decision?.verdicts ?? []).filter((v) => v.against === 'recommended' && v.change === 'add' && v.stable && v.delta !== null);
-    const harmful = adds.filter((v) => v.advice === 'harmful').sort((a, b) => b.delta! - a.delta!)[0];
-    const helpful = adds.filter((v) => v.effect === 'lowers').sort((a, b) => a.delta! - b.delta!)[0];
+    const s = decision?.objectiveBetter === 'higher' ? -1 : 1; // deltas as "lower is better"
+    const harmful = adds.filter((v) => v.advice === 'harmful').sort((a, b) => s * b.delta! - s * a.delta!)[0];
+    const helpful = adds.filter((v) => v.effect === (s === 1 ? 'lowers' : 'raises')).sort((a, b) => s * a.delta! - s * b.delta!)[0];
     const single = harmful ?? helpful;
     if (single && rec) {
       variants.push({ add: [...rec.added, single.pair], remove: rec.removed });

@@ -28,3 +28,15 @@ export function demandNote(ctx: ScenarioContext): string | null {
 export function exactWarnings(ctx: ScenarioContext, what?: string): string[] {
   return [patienceWarning(ctx, what), demandNote(ctx)].filter((w): w is string => w !== null);
 }
+
+/**
+ * With values in the file: the value figures are exact FCFM figures too, so they ignore patience
+ * (an item that gives up is never matched, so its pair earns nothing for it); said beside them.
+ */
+export function valueWarnings(ctx: ScenarioContext): string[] {
+  const who = impatientClasses(ctx);
+  if (who === null) return [];
+  return [
+    `The value rate, waiting cost and net value ignore patience: ${who} a patience in the file, so in reality some items give up unmatched (their pairs earn nothing for them) and fewer wait; \`edgewise simulate\` gives figures with abandonment.`,
+  ];
+}

@@ -18,7 +18,7 @@ import { InfeasibleDesignError } from '../../src/errors.js';
 
 function candidatesOnly(rates: number[], cands: Array<[number, number, number]>, limits?: number[]): DesignProblem {
   const n = rates.length;
-  const toggles: Toggle[] = cands.map(([a, b, price], i) => ({ a: Math.min(a, b), b: Math.max(a, b), kind: 'candidate', price, source: i }));
+  const toggles: Toggle[] = cands.map(([a, b, price], i) => ({ a: Math.min(a, b), b: Math.max(a, b), kind: 'candidate', price, source: i, value: 0 }));
   return {
     n,
     ids: rates.map((_, k) => `k${k}`),
@@ -34,6 +34,9 @@ function candidatesOnly(rates: number[], cands: Array<[number, number, number]>,
     waitTarget: new Float64Array(n).fill(Infinity),
     weight: new Float64Array(n).fill(1),
     today: new Uint8Array(toggles.length),
+    fixedValue: new Float64Array(0),
+    waitingCost: 0,
+    hasValues: false,
   };
 }
 
@@ -113,13 +116,13 @@ describe('baselines', () => {
     //   0–2–3–1–0: 3 + 4 + 10 + 5 = 22  0–3–1–2–0: 6 + 10 + 1 + 3 = 20   0–3–2–1–0 is 0–1–2–3–0 reversed.
     // Cheapest: 0–1–2–3–0 → keep 0–1 and 1–2, drop 0–2 and the self-loop, fund 2–3 and 0–3.
     const toggles: Toggle[] = [
-      { a: 0, b: 1, kind: 'removable', price: 5, source: 0 },
-      { a: 1, b: 2, kind: 'removable', price: 1, source: 1 },
-      { a: 0, b: 2, kind: 'removable', price: 3, source: 2 },
-      { a: 3, b: 3, kind: 'removable', price: 2, source: 3 },
-      { a: 2, b: 3, kind: 'candidate', price: 4, source: 0 },
-      { a: 0, b: 3, kind: 'candidate', price: 6, source: 1 },
-      { a: 1, b: 3, kind: 'candidate', price: 10, source: 2 },
+      { a: 0, b: 1, kind: 'removable', price: 5, source: 0, value: 0 },
+      { a: 1, b: 2, kind: 'removable', price: 1, source: 1, value: 0 },
+      { a: 0, b: 2, kind: 'removable', price: 3, source: 2, value: 0 },
+      { a: 3, b: 3, kind: 'removable', price: 2, source: 3, value: 0 },
+      { a: 2, b: 3, kind: 'candidate', price: 4, source: 0, value: 0 },
+      { a: 0, b: 3, kind: 'candidate', price: 6, source: 1, value: 0 },
+      { a: 1, b: 3, kind: 'candidate', price: 10, source: 2, value: 0 },
     ];
     const base = candidatesOnly([1, 2, 3, 4], []);
     const p: DesignProblem = { ...base, toggles, today: Uint8Array.from([1, 1, 1, 1, 0, 0, 0]) };

@@ -136,10 +136,10 @@ describe('MILP stage (HiGHS) against brute force', () => {
     // triangle fails: {a–b, a–c, (c–c)} forces μ_ac = 1 − μ_ab = 0; {a–c, b–c, (c–c)} needs
     // μ_ac + μ_bc = 2 > λ_c. The triangle (cost 3) carries 1/2 on each edge and is stable (odd cycle).
     const toggles: Toggle[] = [
-      { a: 0, b: 1, kind: 'candidate', price: 1, source: 0 },
-      { a: 2, b: 2, kind: 'candidate', price: 0.5, source: 1 },
-      { a: 0, b: 2, kind: 'candidate', price: 1, source: 2 },
-      { a: 1, b: 2, kind: 'candidate', price: 1, source: 3 },
+      { a: 0, b: 1, kind: 'candidate', price: 1, source: 0, value: 0 },
+      { a: 2, b: 2, kind: 'candidate', price: 0.5, source: 1, value: 0 },
+      { a: 0, b: 2, kind: 'candidate', price: 1, source: 2, value: 0 },
+      { a: 1, b: 2, kind: 'candidate', price: 1, source: 3, value: 0 },
     ];
     const p: DesignProblem = {
       n: 3,
@@ -156,6 +156,9 @@ describe('MILP stage (HiGHS) against brute force', () => {
       waitTarget: new Float64Array(3).fill(Infinity),
       weight: new Float64Array(3).fill(1),
       today: new Uint8Array(4),
+      fixedValue: new Float64Array(0),
+      waitingCost: 0,
+      hasValues: false,
     };
     const cheapest = await cheapestStableDesign(p);
     expect(cheapest!.cost).toBe(3);

@@ -16,8 +16,11 @@ import { bruteStability } from './brute-stability.js';
  *   - the front is every admissible design that no admissible design beats on both cost and
  *     objective (one design kept per cost level).
  * Objectives from a fresh evaluateExact (tested elsewhere against the permutation-sum oracle).
+ * 'net-value' is minimised as its negative: waitingCost · total backlog − Σ_pairs value · match rate,
+ * the value of each pair read from the problem (fixed pairs, then toggles) and paired with the
+ * model's edges by class indices (not by position).
  */
-export type BruteObjective = 'total' | 'weighted' | 'max-wait';
+export type BruteObjective = 'total' | 'weighted' | 'max-wait' | 'net-value';
 
 export interface BruteDesign {
   readonly mask: number;
@@ -48,7 +51,20 @@ export function bruteCost(p: DesignProblem, mask: number): number {
   return c;
 }
 
-export function bruteObjective(o: BruteObjective, p: DesignProblem, backlog: Float64Array): number {
+/** −(net value) of a design: waitingCost · Σ backlog − Σ_edges value(edge) · matchRate(edge). */
+export function bruteNegNetValue(p: DesignProblem, model: CompiledModel, backlog: ArrayLike<number>, matchRates: ArrayLike<number>): number {
+  const value = new Map<string, number>();
+  p.fixed.forEach(([a, b], i) => value.set(`${Math.min(a, b)},${Math.max(a, b)}`, p.fixedValue[i]!));
+  p.toggles.forEach((t) => value.set(`${Math.min(t.a, t.b)},${Math.max(t.a, t.b)}`, t.value));
+  let v = 0;
+  for (let e = 0; e < model.m; e++) v += (value.get(`${model.edgeA[e]},${model.edgeB[e]}`) ?? 0) * matchRates[e]!;
+  let l = 0;
+  for (let k = 0; k < p.n; k++) l += backlog[k]!;
+  return p.waitingCost * l - v;
+}
+
+export function bruteObjective(o: BruteObjective, p: DesignProblem, backlog: Float64Array, model?: CompiledModel, matchRates?: Float64Array): number {
+  if (o === 'net-value') return bruteNegNetValue(p, model!, backlog, matchRates!);
   let v = 0;
   for (let k = 0; k < p.n; k++) {
     if (o === 'total') v += backlog[k]!;
@@ -77,7 +93,7 @@ export function bruteDesign(p: DesignProblem, o: BruteObjective, mask: number): 
   const r = evaluateExact(model);
   let meets = true;
   for (let k = 0; k < p.n; k++) if (r.wait[k]! > p.waitTarget[k]! * (1 + 1e-12)) meets = false;
-  return { mask, cost, stable, objective: bruteObjective(o, p, r.backlog), meetsTargets: meets, withinLimits };
+  return { mask, cost, stable, objective: bruteObjective(o, p, r.backlog, model, r.matchRates), meetsTargets: meets, withinLimits };
 }
 
 /** Every design of the problem (2^toggles; keep toggles <= ~14). */

@@ -48,7 +48,7 @@ export function randomProblem(rng: Rng, o: RandomProblemOptions): DesignProblem 
     if (used.has(id)) continue;
     used.add(id);
     const kind = toggles.length < removables ? 'removable' : 'candidate';
-    toggles.push({ a: Math.min(a, b), b: Math.max(a, b), kind, price: rng.int(1, 20), source: toggles.length });
+    toggles.push({ a: Math.min(a, b), b: Math.max(a, b), kind, price: rng.int(1, 20), source: toggles.length, value: 0 });
   }
   if (toggles.length < o.toggles) throw new Error('not enough free pairs for the toggles');
   const fixedDegree = new Int32Array(n);
@@ -73,5 +73,8 @@ export function randomProblem(rng: Rng, o: RandomProblemOptions): DesignProblem 
     waitTarget: new Float64Array(n).fill(Infinity),
     weight: new Float64Array(n).fill(1),
     today: Uint8Array.from(toggles, (t) => (t.kind === 'removable' ? 1 : 0)),
+    fixedValue: new Float64Array(fixed.length),
+    waitingCost: 0,
+    hasValues: false,
   };
 }

@@ -34,6 +34,8 @@ export interface RandomScenarioOptions {
   readonly overload?: boolean;
   /** Demand variants (named rate changes). */
   readonly demand?: boolean;
+  /** Values per match on most compatibilities and candidates (some negative), and a waitingCost. */
+  readonly values?: boolean;
 }
 
 const HOSTILE = ['a,b', 'x~y', '50%', 'old town', 'ünïcode', '中文', '-dash-', 'x%2Cy', 'é~,%'];
@@ -113,6 +115,15 @@ export function randomScenario(seed: number, o: RandomScenarioOptions): RandomSc
       const fixed = pairs.filter(([a, b]) => a === k || b === k).length;
       (classes[k] as Record<string, unknown>)['maxCompatibilities'] = fixed;
     }
+  }
+  if (o.values) {
+    // drawn from a generator of their own, so that the rest of the file is the same with or without values
+    const vr = new Rng(seed + 7919);
+    const withValue = (c: Record<string, unknown>): Record<string, unknown> =>
+      Array.isArray(c) ? (vr.chance(0.8) ? { pair: c, value: Number(vr.uniform(-2, 12).toFixed(2)) } : c) : vr.chance(0.8) ? { ...c, value: Number(vr.uniform(-2, 12).toFixed(2)) } : c;
+    doc['compatibilities'] = compat.map((c) => withValue(c as Record<string, unknown>));
+    doc['candidates'] = candidates.map((c) => withValue(c as Record<string, unknown>));
+    doc['waitingCost'] = Number(vr.uniform(0.2, 3).toFixed(2));
   }
   if (o.demand) {
     doc['demand'] = { peak: Object.fromEntries(ids.slice(0, Math.min(3, n)).map((id, k) => [id, Number((rates[k]! * 1.1).toFixed(4))])) };

@@ -10,8 +10,10 @@
 import { EdgewiseError, TooLargeError, UnstableDesignError } from '../../errors.js';
 import { compileGraph } from '../../model/compile.js';
 import { singleChangeEvaluator, type ChangeResult } from '../../exact/single-change.js';
-import { objectiveValue, type ObjectiveName } from '../space/objective.js';
-import { admissibleBeforeEvaluation, designCost, designPairs, type DesignProblem } from '../space/problem.js';
+import { evaluateExact } from '../../exact/evaluate.js';
+import { valueRate as sumValue } from '../../model/values.js';
+import { needsMatchRates, objectiveValue, type ObjectiveName } from '../space/objective.js';
+import { admissibleBeforeEvaluation, designCost, designPairs, designPairValues, type DesignProblem } from '../space/problem.js';
 
 /** What a design does, as far as the decision is concerned. */
 export interface DesignOutcome {
@@ -50,7 +52,10 @@ export interface SingleChanges {
   readonly skipped?: string;
 }
 
-function outcome(problem: DesignProblem, objective: ObjectiveName, design: ArrayLike<number>, r: ChangeResult | null): DesignOutcome {
+/** What outcome() reads of an evaluation: ChangeResult's figures, and the value rate for net value. */
+type Evaluated = Pick<ChangeResult, 'stable' | 'backlogTotal' | 'backlog' | 'wait'> & { readonly valueRate?: number };
+
+function outcome(problem: DesignProblem, objective: ObjectiveName, design: ArrayLike<number>, r: Evaluated | null): DesignOutcome {
   const cost = designCost(problem, design);
   const admissible = admissibleBeforeEvaluation(problem, design);
   if (!r || !r.stable) {
@@ -58,7 +63,7 @@ function outcome(problem: DesignProblem, objective: ObjectiveName, design: Array
   }
   let meets = true;
   for (let k = 0; k < problem.n; k++) if (r.wait[k]! > problem.waitTarget[k]! * (1 + 1e-12)) meets = false;
-  const obj = objectiveValue(objective, r.backlogTotal, r.backlog, problem.rates, problem.weight);
+  const obj = objectiveValue(objective, r.backlogTotal, r.backlog, problem.rates, problem.weight, { valueRate: r.valueRate ?? NaN, waitingCost: problem.waitingCost });
   return { stable: true, objective: obj, backlog: r.backlogTotal, wait: r.wait, cost, admissible, meetsTargets: meets, feasible: admissible && meets };
 }
 
@@ -79,6 +84,7 @@ export function singleChanges(
   design: Uint8Array,
   options: { readonly toggles?: readonly number[]; readonly maxSets?: number } = {},
 ): SingleChanges {
+  if (needsMatchRates(objective)) return freshChanges(problem, objective, design, options);
   const model = compileGraph(problem.ids, problem.rates, designPairs(problem, design));
   let ev;
   try {
@@ -101,6 +107,60 @@ export function singleChanges(
       throw e;
     }
     const changed = flip(design, j);
+    const o = outcome(problem, objective, changed, r);
+    changes.push({
+      ...o,
+      toggle: j,
+      change: design[j] ? 'remove' : 'add',
+      delta: o.stable ? o.objective - base.objective : Infinity,
+      backlogDelta: o.stable ? o.backlog - base.backlog : Infinity,
+    });
+  }
+  return { design, base, changes };
+}
+
+/**
+ * The same with every design evaluated afresh by evaluateExact, for objectives that need the exact
+ * match rates (net value): the single-change evaluator gives backlogs, not match rates. A change
+ * the exact recursion finds unstable is unstable; one it cannot evaluate (too large, too close to
+ * the boundary) gets no verdict, as above.
+ */
+function freshChanges(
+  problem: DesignProblem,
+  objective: ObjectiveName,
+  design: Uint8Array,
+  options: { readonly toggles?: readonly number[]; readonly maxSets?: number },
+): SingleChanges {
+  const opts = options.maxSets === undefined ? {} : { maxSets: options.maxSets };
+  const evaluate = (d: Uint8Array): Evaluated => {
+    const model = compileGraph(problem.ids, problem.rates, designPairs(problem, d));
+    try {
+      const r = evaluateExact(model, opts);
+      return { stable: true, backlogTotal: r.backlogTotal, backlog: r.backlog, wait: r.wait, valueRate: sumValue(designPairValues(problem, d), r.matchRates) };
+    } catch (e) {
+      if (e instanceof UnstableDesignError) return { stable: false, backlogTotal: Infinity, backlog: new Float64Array(0), wait: new Float64Array(0) };
+      throw e;
+    }
+  };
+  let first: Evaluated;
+  try {
+    first = evaluate(design);
+  } catch (e) {
+    if (e instanceof EdgewiseError) return { design, base: outcome(problem, objective, design, null), changes: [], skipped: e.message };
+    throw e;
+  }
+  if (!first.stable) return { design, base: outcome(problem, objective, design, null), changes: [], skipped: 'the design is unstable' };
+  const base = outcome(problem, objective, design, first);
+  const changes: SingleChange[] = [];
+  for (const j of options.toggles ?? problem.toggles.map((_, k) => k)) {
+    const changed = flip(design, j);
+    let r: Evaluated;
+    try {
+      r = evaluate(changed);
+    } catch (e) {
+      if (e instanceof EdgewiseError) continue;
+      throw e;
+    }
     const o = outcome(problem, objective, changed, r);
     changes.push({
       ...o,

@@ -11,7 +11,7 @@
  */
 import type { DesignProblem } from '../space/problem.js';
 import { admissibleBeforeEvaluation, changeCount, designCost, designKey } from '../space/problem.js';
-import { needsPerClass, objectiveValue, type ObjectiveName } from '../space/objective.js';
+import { needsMatchRates, needsPerClass, objectiveValue, type ObjectiveName } from '../space/objective.js';
 import type { Scorer } from './scorer.js';
 import { reuses, type ReuseMode } from './reuse.js';
 import type { Score, ScoreSpec } from './score.js';
@@ -27,6 +27,8 @@ export interface DesignRecord {
   /** Objective value (NaN when unstable). */
   readonly objective: number;
   readonly backlogTotal: number;
+  /** Σ value · match rate when the objective is net value (NaN otherwise or when unstable). */
+  readonly valueRate: number;
   /** Per-class backlog when scored in full, else null. */
   readonly backlog: Float64Array | null;
   /** Largest class mean wait when scored in full, else NaN. */
@@ -64,7 +66,10 @@ export function scoreSpecOf(problem: DesignProblem, objective: ObjectiveName, ma
     rates: Array.from(problem.rates),
     fixed: problem.fixed,
     toggles: problem.toggles.map((t) => [t.a, t.b] as const),
-    perClass: objective !== 'total' || hasTargets,
+    perClass: needsPerClass(objective, hasTargets),
+    matchValue: needsMatchRates(objective),
+    fixedValue: Array.from(problem.fixedValue),
+    toggleValue: problem.toggles.map((t) => t.value),
     ...(maxSets === undefined ? {} : { maxSets }),
   };
 }
@@ -77,6 +82,8 @@ export class DesignEvaluator {
   scored = 0;
 
   private readonly perClass: boolean;
+  /** Value rates need the exact match rates: no reuse of a single-change preparation. */
+  private readonly matchValue: boolean;
 
   constructor(
     readonly problem: DesignProblem,
@@ -87,6 +94,7 @@ export class DesignEvaluator {
     readonly reuse: ReuseMode = 'auto',
   ) {
     this.perClass = needsPerClass(objective, problem.waitTarget.some((w) => Number.isFinite(w)));
+    this.matchValue = needsMatchRates(objective);
   }
 
   get(key: string): DesignRecord | undefined {
@@ -122,7 +130,8 @@ export class DesignEvaluator {
       }
     }
     const within = admissibleBeforeEvaluation(p, design);
-    const objective = s.stable ? objectiveValue(this.objective, s.backlogTotal, s.backlog ?? undefined, p.rates, p.weight) : NaN;
+    const value = { valueRate: s.valueRate, waitingCost: p.waitingCost };
+    const objective = s.stable ? objectiveValue(this.objective, s.backlogTotal, s.backlog ?? undefined, p.rates, p.weight, value) : NaN;
     return {
       key,
       design,
@@ -131,6 +140,7 @@ export class DesignEvaluator {
       stable: s.stable,
       objective,
       backlogTotal: s.backlogTotal,
+      valueRate: s.valueRate,
       backlog: s.backlog,
       maxWait,
       meetsTargets: meets,
@@ -179,7 +189,7 @@ export class DesignEvaluator {
     const groups = new Map<string, { from: DesignRecord; flips: number[]; at: number[] }>();
     designs.forEach((design, i) => {
       const o = origins[i];
-      if (!o || !o.from.stable || this.reuse === 'never') {
+      if (!o || !o.from.stable || this.reuse === 'never' || this.matchValue) {
         tasks.push({ design });
         at.push([i]);
         return;

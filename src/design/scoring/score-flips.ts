@@ -27,6 +27,8 @@ export function flipped(design: ArrayLike<number>, j: number): Uint8Array {
 
 /** Scores of the designs `base` with toggle flips[i] switched, in the order of `flips`. */
 export function scoreFlips(spec: ScoreSpec, base: ArrayLike<number>, flips: readonly number[]): Score[] {
+  // the single-change evaluator gives backlogs, not match rates: value rates need a fresh scoring
+  if (spec.matchValue) return flips.map((j) => scoreDesign(spec, flipped(base, j)));
   const maxSets = spec.maxSets ?? DEFAULT_MAX_SETS;
   const model = specModel(spec, base);
   let ev: SingleChangeEvaluator | undefined;
@@ -54,6 +56,6 @@ export function scoreFlips(spec: ScoreSpec, base: ArrayLike<number>, flips: read
       throw e;
     }
     if (!r.stable) return UNSTABLE_EVALUATED;
-    return { stable: true, backlogTotal: r.backlogTotal, backlog: spec.perClass ? r.backlog : null, independentSets: total, evaluated: true };
+    return { stable: true, backlogTotal: r.backlogTotal, backlog: spec.perClass ? r.backlog : null, valueRate: NaN, independentSets: total, evaluated: true };
   });
 }

@@ -11,6 +11,7 @@ import { UnstableDesignError } from '../../errors.js';
 import { compileGraph, type CompiledModel } from '../../model/compile.js';
 import { bipartition, components } from '../../model/components.js';
 import { evaluateBacklog, evaluateExact } from '../../exact/evaluate.js';
+import { valueRate as sumValue } from '../../model/values.js';
 
 /** Everything a scorer needs, as plain data (it is sent to worker threads). */
 export interface ScoreSpec {
@@ -22,6 +23,14 @@ export interface ScoreSpec {
   readonly toggles: ReadonlyArray<readonly [number, number]>;
   /** Compute per-class backlog (full evaluation) instead of the total only. */
   readonly perClass: boolean;
+  /**
+   * Compute the value rate Σ value · match rate (full evaluation: the exact match rates), with the
+   * value per match of each fixed pair and of each toggle's pair (0 for a pair without a value,
+   * and for every pair when absent). Default false.
+   */
+  readonly matchValue?: boolean;
+  readonly fixedValue?: readonly number[];
+  readonly toggleValue?: readonly number[];
   readonly maxSets?: number;
 }
 
@@ -31,6 +40,8 @@ export interface Score {
   readonly backlogTotal: number;
   /** Per-class mean backlog when the spec asks for it (null otherwise or when unstable). */
   readonly backlog: Float64Array | null;
+  /** Σ value · match rate when the spec asks for it (NaN otherwise or when unstable). */
+  readonly valueRate: number;
   /** Independent sets used by the exact recursion (0 when refused before it ran). */
   readonly independentSets: number;
   /** True when the exact evaluator ran (it counts as one evaluation). */
@@ -44,8 +55,15 @@ export function specModel(spec: ScoreSpec, design: ArrayLike<number>): CompiledM
   return compileGraph(spec.ids, spec.rates, pairs);
 }
 
+/** Value per match of each edge of specModel(spec, design), in its edge order. */
+export function specValues(spec: ScoreSpec, design: ArrayLike<number>): number[] {
+  const out = spec.fixed.map((_, i) => spec.fixedValue?.[i] ?? 0);
+  for (let j = 0; j < spec.toggles.length; j++) if (design[j]) out.push(spec.toggleValue?.[j] ?? 0);
+  return out;
+}
+
 /** The score of a design refused without evaluating (unstable at sight). */
-export const UNSTABLE_UNEVALUATED: Score = { stable: false, backlogTotal: NaN, backlog: null, independentSets: 0, evaluated: false };
+export const UNSTABLE_UNEVALUATED: Score = { stable: false, backlogTotal: NaN, backlog: null, valueRate: NaN, independentSets: 0, evaluated: false };
 
 /** The score of a design the exact recursion found unstable (it counts as an evaluation). */
 export const UNSTABLE_EVALUATED: Score = { ...UNSTABLE_UNEVALUATED, evaluated: true };
@@ -65,12 +83,13 @@ export function scoreDesign(spec: ScoreSpec, design: ArrayLike<number>): Score {
   if (unstableAtSight(model)) return UNSTABLE_UNEVALUATED;
   const options = spec.maxSets === undefined ? {} : { maxSets: spec.maxSets };
   try {
-    if (spec.perClass) {
+    if (spec.perClass || spec.matchValue === true) {
       const r = evaluateExact(model, options);
-      return { stable: true, backlogTotal: r.backlogTotal, backlog: r.backlog, independentSets: r.independentSets, evaluated: true };
+      const valueRate = spec.matchValue ? sumValue(specValues(spec, design), r.matchRates) : NaN;
+      return { stable: true, backlogTotal: r.backlogTotal, backlog: spec.perClass ? r.backlog : null, valueRate, independentSets: r.independentSets, evaluated: true };
     }
     const r = evaluateBacklog(model, options);
-    return { stable: true, backlogTotal: r.backlogTotal, backlog: null, independentSets: r.independentSets, evaluated: true };
+    return { stable: true, backlogTotal: r.backlogTotal, backlog: null, valueRate: NaN, independentSets: r.independentSets, evaluated: true };
   } catch (e) {
     if (e instanceof UnstableDesignError) return UNSTABLE_EVALUATED;
     throw e;

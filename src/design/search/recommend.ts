@@ -16,6 +16,7 @@
 import { InfeasibleDesignError, InterruptedError, UsageError } from '../../errors.js';
 import { compileGraph } from '../../model/compile.js';
 import { evaluateExact } from '../../exact/evaluate.js';
+import { valueRate as sumValue } from '../../model/values.js';
 import { checkStability } from '../../stability/check.js';
 import { seededRandom } from '../../random.js';
 import { baselines as buildBaselines, type BaselineName } from './baselines.js';
@@ -23,7 +24,7 @@ import { DesignEvaluator, scoreSpecOf, type DesignRecord } from '../scoring/eval
 import { exhaustiveSearch, MAX_EXHAUSTIVE_TOGGLES } from './exhaustive.js';
 import { paretoLocalSearch } from './local-search.js';
 import { budgetLadder, cheapestStableDesign, maxMinFlowDesign, type MilpDesign } from './milp.js';
-import { objectiveValue, type ObjectiveName } from '../space/objective.js';
+import { needsMatchRates, objectiveValue, type ObjectiveName } from '../space/objective.js';
 import { frontValueAt, paretoFront } from '../space/pareto.js';
 import { penaltyBatch, penaltyVerdict } from '../space/penalty.js';
 import { createScorer, inThreadScorer, SearchStopped, workerScriptUrl } from '../scoring/scorer.js';
@@ -34,6 +35,7 @@ import {
   designCost,
   designKey,
   designPairs,
+  designPairValues,
   withinBudget,
   type DesignProblem,
 } from '../space/problem.js';
@@ -98,6 +100,8 @@ export interface DesignDetails {
   /** Objective value (NaN when unstable). */
   readonly objective: number;
   readonly backlogTotal: number;
+  /** Σ value · match rate (per time unit) when stable and the problem has values, else NaN. */
+  readonly valueRate: number;
   /** Per class, when stable. */
   readonly backlog: Float64Array | null;
   readonly wait: Float64Array | null;
@@ -148,6 +152,10 @@ export interface Recommendation {
   readonly partial: boolean;
 }
 
+/** Why `--objective net-value` is refused on a file without values. */
+export const NO_VALUES_MESSAGE =
+  '--objective net-value needs values: no compatibility or candidate of the scenario has a "value" (per match) and the file gives no "waitingCost"; add them (docs/scenario-format.md, "Value per match") or choose another objective';
+
 /** "add a ↔ b, c ↔ d; drop e ↔ f" for messages (the one text notation of a pair). */
 export function describeChanges(problem: DesignProblem, design: Uint8Array): string {
   const { added, removed } = designChanges(problem, design);
@@ -168,18 +176,20 @@ export function designDetails(problem: DesignProblem, objective: ObjectiveName, 
   const base = { design, key: designKey(design), cost: designCost(problem, design), added, removed };
   const report = checkStability(model);
   if (!report.stable) {
-    return { ...base, stable: false, objective: NaN, backlogTotal: NaN, backlog: null, wait: null, maxWait: NaN, minEdgeFlow: NaN, bottleneckSlack: NaN, independentSets: 0 };
+    return { ...base, stable: false, objective: NaN, backlogTotal: NaN, valueRate: NaN, backlog: null, wait: null, maxWait: NaN, minEdgeFlow: NaN, bottleneckSlack: NaN, independentSets: 0 };
   }
   const r = evaluateExact(model, maxSets === undefined ? {} : { maxSets });
   let minEdgeFlow = Infinity;
   for (const c of report.components) minEdgeFlow = Math.min(minEdgeFlow, c.minEdgeFlow ?? Infinity);
   let maxWait = 0;
   for (let k = 0; k < problem.n; k++) maxWait = Math.max(maxWait, r.wait[k]!);
+  const valueRate = problem.hasValues ? sumValue(designPairValues(problem, design), r.matchRates) : NaN;
   return {
     ...base,
     stable: true,
-    objective: objectiveValue(objective, r.backlogTotal, r.backlog, problem.rates, problem.weight),
+    objective: objectiveValue(objective, r.backlogTotal, r.backlog, problem.rates, problem.weight, { valueRate, waitingCost: problem.waitingCost }),
     backlogTotal: r.backlogTotal,
+    valueRate,
     backlog: r.backlog,
     wait: r.wait,
     maxWait,
@@ -216,6 +226,7 @@ function fullCost(problem: DesignProblem): number {
 
 export async function recommend(problem: DesignProblem, options: RecommendOptions = {}): Promise<Recommendation> {
   const objective = options.objective ?? 'total';
+  if (needsMatchRates(objective) && !problem.hasValues) throw new UsageError(NO_VALUES_MESSAGE);
   if (options.exhaustive && problem.toggles.length > MAX_EXHAUSTIVE_TOGGLES) {
     throw new UsageError(
       `--exhaustive enumerates 2^${problem.toggles.length} designs; it is limited to ${MAX_EXHAUSTIVE_TOGGLES} removable compatibilities and candidates together`,

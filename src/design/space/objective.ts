@@ -3,15 +3,29 @@
  *
  * - `total`: mean total number of waiting items, Σ_k L_k (the default);
  * - `weighted`: Σ_k w_k L_k with the per-class `weight` of the scenario (default 1);
- * - `max-wait`: the largest class mean wait, max_k W_k with W_k = L_k / λ_k (Little's law).
+ * - `max-wait`: the largest class mean wait, max_k W_k with W_k = L_k / λ_k (Little's law);
+ * - `net-value`: the net value rate V − c·L, where V = Σ_pairs value · (exact match rate along the
+ *   pair) and c the scenario's `waitingCost` (src/model/values.ts). Higher is better, so the number
+ *   minimised is its negative, c·L − V; records and outputs show the net value itself
+ *   (`objectiveSign`).
  */
-export type ObjectiveName = 'total' | 'weighted' | 'max-wait';
+export type ObjectiveName = 'total' | 'weighted' | 'max-wait' | 'net-value';
 
-export const OBJECTIVES: readonly ObjectiveName[] = ['total', 'weighted', 'max-wait'];
+export const OBJECTIVES: readonly ObjectiveName[] = ['total', 'weighted', 'max-wait', 'net-value'];
 
 /** Human name of an objective (table headers). */
 export function objectiveLabel(name: ObjectiveName): string {
-  return name === 'total' ? 'total backlog' : name === 'weighted' ? 'weighted backlog' : 'largest mean wait';
+  return name === 'total' ? 'total backlog' : name === 'weighted' ? 'weighted backlog' : name === 'max-wait' ? 'largest mean wait' : 'net value';
+}
+
+/** Which way is better for the objective as shown: lower backlog or wait, higher net value. */
+export function objectiveBetter(name: ObjectiveName): 'lower' | 'higher' {
+  return name === 'net-value' ? 'higher' : 'lower';
+}
+
+/** Shown objective = sign · minimised objective (−1 for net value: the search minimises its negative). */
+export function objectiveSign(name: ObjectiveName): 1 | -1 {
+  return name === 'net-value' ? -1 : 1;
 }
 
 /** True when the objective (or a wait target) needs per-class figures, i.e. the full evaluation. */
@@ -19,15 +33,36 @@ export function needsPerClass(name: ObjectiveName, hasWaitTargets: boolean): boo
   return name !== 'total' || hasWaitTargets;
 }
 
-/** The objective of a design from its per-class backlog (when needed) and total backlog. */
+/** True when the objective needs the exact match rate of every pair (the value rate). */
+export function needsMatchRates(name: ObjectiveName): boolean {
+  return name === 'net-value';
+}
+
+/** What the net-value objective needs besides the backlog: the value rate and the waiting cost. */
+export interface ValueTerms {
+  /** Σ value · match rate (per time unit). */
+  readonly valueRate: number;
+  /** Cost per waiting item per time unit. */
+  readonly waitingCost: number;
+}
+
+/**
+ * The objective (the number minimised) of a design from its per-class backlog (when needed), total
+ * backlog and, for net value, the value terms.
+ */
 export function objectiveValue(
   name: ObjectiveName,
   backlogTotal: number,
   backlog: ArrayLike<number> | undefined,
   rates: ArrayLike<number>,
   weight: ArrayLike<number>,
+  value?: ValueTerms,
 ): number {
   if (name === 'total') return backlogTotal;
+  if (name === 'net-value') {
+    if (!value || !Number.isFinite(value.valueRate)) throw new RangeError('objective net-value needs the value rate');
+    return value.waitingCost * backlogTotal - value.valueRate;
+  }
   if (!backlog) throw new RangeError(`objective ${name} needs per-class backlog`);
   if (name === 'weighted') {
     let s = 0;

@@ -14,6 +14,7 @@
  */
 import { pairKey, type Scenario } from '../../model/scenario.js';
 import type { DesignFields } from '../../model/design-fields.js';
+import { pairValues } from '../../model/values.js';
 
 export type ToggleKind = 'candidate' | 'removable';
 
@@ -26,6 +27,8 @@ export interface Toggle {
   readonly price: number;
   /** Index in scenario.candidates or scenario.compatibilities. */
   readonly source: number;
+  /** Value per match along the pair (0 when the file gives none). */
+  readonly value: number;
 }
 
 export interface ForcedRemoval {
@@ -58,6 +61,12 @@ export interface DesignProblem {
   readonly weight: Float64Array;
   /** Today's design: removable compatibilities on, candidates off. */
   readonly today: Uint8Array;
+  /** Value per match of each fixed pair (0 when the file gives none; src/model/values.ts). */
+  readonly fixedValue: Float64Array;
+  /** Cost per waiting item per time unit (0 when the file gives none). */
+  readonly waitingCost: number;
+  /** Some pair has a value or the file gives waitingCost: net value can be computed. */
+  readonly hasValues: boolean;
 }
 
 /** Rounds a cost to 1e-9 so that equal sums of decimal prices compare equal (and −0 becomes 0). */
@@ -77,6 +86,9 @@ export function designProblem(scenario: Scenario, fields: DesignFields, budget?:
   const toggles: Toggle[] = [];
   const forcedOut: ForcedRemoval[] = [];
   const fixedDegree = new Int32Array(n);
+  const fixedValue: number[] = [];
+  const values = pairValues(scenario);
+  const valueOf = (pair: readonly [string, string]): number => values.byKey.get(pairKey(pair[0], pair[1])) ?? 0;
   const ends = (pair: readonly [string, string]): [number, number] => {
     const x = index.get(pair[0])!;
     const y = index.get(pair[1])!;
@@ -87,15 +99,16 @@ export function designProblem(scenario: Scenario, fields: DesignFields, budget?:
     const key = pairKey(c.pair[0], c.pair[1]);
     if (!c.removable || keep.has(key)) {
       fixed.push([a, b]);
+      fixedValue.push(valueOf(c.pair));
       fixedDegree[a]++;
       if (b !== a) fixedDegree[b]++;
     } else if (forbid.has(key)) forcedOut.push({ a, b, saving: c.saving, source: i });
-    else toggles.push({ a, b, kind: 'removable', price: c.saving, source: i });
+    else toggles.push({ a, b, kind: 'removable', price: c.saving, source: i, value: valueOf(c.pair) });
   });
   scenario.candidates.forEach((c, i) => {
     if (forbid.has(pairKey(c.pair[0], c.pair[1]))) return;
     const [a, b] = ends(c.pair);
-    toggles.push({ a, b, kind: 'candidate', price: c.cost, source: i });
+    toggles.push({ a, b, kind: 'candidate', price: c.cost, source: i, value: valueOf(c.pair) });
   });
   let offset = 0;
   for (const f of forcedOut) offset -= f.saving;
@@ -115,7 +128,17 @@ export function designProblem(scenario: Scenario, fields: DesignFields, budget?:
     waitTarget: Float64Array.from(fields.waitTarget),
     weight: Float64Array.from(fields.weight),
     today,
+    fixedValue: Float64Array.from(fixedValue),
+    waitingCost: values.waitingCost,
+    hasValues: values.any,
   };
+}
+
+/** Value per match of each pair of designPairs(p, d), in that order. */
+export function designPairValues(p: DesignProblem, d: ArrayLike<number>): Float64Array {
+  const out: number[] = Array.from(p.fixedValue);
+  for (let j = 0; j < p.toggles.length; j++) if (d[j]) out.push(p.toggles[j]!.value);
+  return Float64Array.from(out);
 }
 
 /** Cost of a design: Σ added candidates' costs − Σ dropped compatibilities' savings. */

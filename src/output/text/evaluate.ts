@@ -1,5 +1,5 @@
 import type { EvaluateRecord } from '../../usecases/evaluate.js';
-import { count, num, pct, perUnit, rate, setText, wait, waitScale, type WaitScale } from '../format.js';
+import { count, num, pairText, pct, perUnit, rate, setText, wait, waitScale, type WaitScale } from '../format.js';
 import { instabilityBlocks, referenceWords } from './common.js';
 import { para, tableBlock, title, type Block } from './doc.js';
 
@@ -68,5 +68,43 @@ export function evaluateText(r: EvaluateRecord, o: EvaluateTextOptions): Block[]
         ` · ${count(r.independentSets!)} independent sets`,
     ),
   );
+  blocks.push(...valueBlocks(r));
+  return blocks;
+}
+
+/** Value rate, waiting cost and net value, and the pairs that carry a value (when the file gives values). */
+function valueBlocks(r: EvaluateRecord): Block[] {
+  const v = r.value;
+  if (!v) return [];
+  const u = perUnit(r.timeUnit);
+  const waiting = v.waitingCost === null ? 'no waitingCost in the file (counted 0)' : `waiting cost ${num(v.waitingCostRate)}${u} (${num(v.waitingCost)} per waiting item × ${num(r.backlog!.total)} waiting)`;
+  const zero =
+    v.pairsWithValue > 0 && v.pairsWithoutValue > 0
+      ? ` ${count(v.pairsWithoutValue)} of the design's ${count(v.pairsWithValue + v.pairsWithoutValue)} pairs ${v.pairsWithoutValue === 1 ? 'has' : 'have'} no value in the file and count${v.pairsWithoutValue === 1 ? 's' : ''} 0.`
+      : v.pairsWithValue === 0
+        ? ' No pair of this design has a value in the file: every match counts 0.'
+        : '';
+  const patience = v.patienceIgnored ? ' Exact FCFM figures: patience is ignored (see the warning).' : '';
+  const blocks: Block[] = [
+    para(`Value of matches ${num(v.rate)}${u} (Σ value per match × match rate) − ${waiting} = net value ${num(v.net)}${u}.${zero}${patience}`),
+  ];
+  const rows = r.matchRates.filter((m) => m.value !== null).sort((a, b) => b.valueRate! - a.valueRate! || (pairText(a.pair) < pairText(b.pair) ? -1 : 1));
+  if (rows.length > 0) {
+    blocks.push(
+      tableBlock(
+        {
+          columns: [
+            { header: 'pair', wrap: true },
+            { header: 'value per match', align: 'right' },
+            { header: `matches ${u}`, align: 'right' },
+            { header: `value ${u}`, align: 'right' },
+            { header: 'share of value', align: 'right', secondary: true },
+          ],
+          rows: rows.map((m) => [pairText(m.pair), num(m.value!), num(m.rate), num(m.valueRate!), v.rate !== 0 ? pct(m.valueRate! / v.rate) : '—']),
+        },
+        'Pairs with a value, by value per time unit:',
+      ),
+    );
+  }
   return blocks;
 }

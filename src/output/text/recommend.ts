@@ -1,6 +1,6 @@
 import type { DesignFigures, VerdictRecord } from '../../usecases/designs.js';
 import type { DecisionPart, RecommendRecord } from '../../usecases/recommend.js';
-import { count, money, num, pairText, pct, signed, wait, waitScale, type WaitScale } from '../format.js';
+import { count, money, num, pairText, perUnit, pct, signed, unitName, wait, waitScale, type WaitScale } from '../format.js';
 import { changesText, instabilityBlocks } from './common.js';
 import { para, tableBlock, title, type Block } from './doc.js';
 
@@ -39,7 +39,10 @@ export function verdictBlocks(d: DecisionPart, scale: WaitScale): Block[] {
   if (rec.length === 0) return [];
   const today = new Map(d.verdicts.filter((v) => v.against === 'today').map((v) => [`${v.pair[0]}\u0001${v.pair[1]}`, v] as const));
   const order = (v: VerdictRecord): number => (v.change === 'remove' ? 1 : 0);
-  const rows = [...rec].sort((a, b) => order(a) - order(b) || (a.delta ?? Infinity) - (b.delta ?? Infinity)).map((v) => {
+  // best change first: the largest fall of a backlog or wait, the largest rise of a net value
+  const s = d.objectiveBetter === 'higher' ? -1 : 1;
+  const key = (v: VerdictRecord): number => (v.delta === null ? Infinity : s * v.delta);
+  const rows = [...rec].sort((a, b) => order(a) - order(b) || key(a) - key(b)).map((v) => {
     const t = today.get(`${v.pair[0]}\u0001${v.pair[1]}`);
     return [
       `${changeWord(v)} ${pairText(v.pair)}`,
@@ -61,7 +64,7 @@ export function verdictBlocks(d: DecisionPart, scale: WaitScale): Block[] {
         ],
         rows,
       },
-      `Every single change, measured against the recommended design (Δ: the change of the ${d.objectiveLabel}; price: cost of adding or saving of dropping${d.costUnit ? `, in ${d.costUnit}` : ''}; the last column measures the same pair against today's design):`,
+      `Every single change, measured against the recommended design (Δ: the change of the ${d.objectiveLabel}${d.objectiveBetter === 'higher' ? ', + is better' : ''}; price: cost of adding or saving of dropping${d.costUnit ? `, in ${d.costUnit}` : ''}; the last column measures the same pair against today's design):`,
     ),
   ];
 }
@@ -79,7 +82,8 @@ function frontRow(d: DecisionPart, e: DesignFigures & { recommended?: boolean },
     `${e.recommended ? '→ ' : ''}${i + 1}`,
     num(e.cost),
     e.backlog === null ? '—' : num(e.backlog),
-    ...(d.objective === 'weighted' ? [e.objective === null ? '—' : num(e.objective)] : []),
+    ...(d.objective === 'weighted' || d.objective === 'net-value' ? [e.objective === null ? '—' : num(e.objective)] : []),
+    ...(d.objective === 'net-value' ? [e.valueRate === null ? '—' : num(e.valueRate)] : []),
     e.maxWait === null ? '—' : `${wait(e.maxWait, scale)} (${e.maxWaitClass})`,
     e.spareCapacity === null ? '—' : num(e.spareCapacity),
     changesText(e.added, e.removed),
@@ -100,13 +104,19 @@ export function recommendText(r: RecommendRecord, o: { readonly waitUnit?: strin
           { header: 'cost', align: 'right' },
           { header: 'backlog', align: 'right' },
           ...(r.objective === 'weighted' ? [{ header: r.objectiveLabel, align: 'right' as const }] : []),
+          ...(r.objective === 'net-value'
+            ? [
+                { header: `net value ${perUnit(r.timeUnit)} (higher is better)`, align: 'right' as const },
+                { header: `value of matches ${perUnit(r.timeUnit)}`, align: 'right' as const, secondary: true },
+              ]
+            : []),
           { header: 'largest mean wait', align: 'right', secondary: true },
           { header: 'spare capacity', align: 'right', secondary: true },
           { header: 'changes from today', wrap: true },
         ],
         rows: r.pareto.map((e, i) => frontRow(r, e, i, scale)),
       },
-      `Pareto set, cheapest first (no design is both cheaper and better${r.partial ? '; INTERRUPTED: what was found so far' : ''}; → the recommended design):`,
+      `Pareto set, cheapest first (no design is both cheaper and better${r.objectiveBetter === 'higher' ? ` — better is a higher ${r.objectiveLabel}: value of matches − ${r.waitingCost === null ? 'waiting cost (none in the file)' : `${num(r.waitingCost)} per waiting item per ${unitName(r.timeUnit)} × backlog`}; the net value rises along the set` : ''}${r.partial ? '; INTERRUPTED: what was found so far' : ''}; → the recommended design):`,
     ),
   );
   blocks.push(para(recommendedWords(r, scale)));
@@ -119,7 +129,7 @@ export function recommendText(r: RecommendRecord, o: { readonly waitUnit?: strin
           { header: 'cost', align: 'right' },
           { header: r.objectiveLabel, align: 'right' },
           { header: 'Pareto set at this cost', align: 'right' },
-          { header: 'gap', align: 'right' },
+          { header: r.objectiveBetter === 'higher' ? 'behind the set' : 'gap', align: 'right' },
           { header: 'how it is built', wrap: true, secondary: true },
         ],
         rows: r.baselines.map((b) => {
