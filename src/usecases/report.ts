@@ -175,7 +175,7 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
   } else if (stability.stable && ctx.problem.forcedOut.length === 0) {
     // no recommendation (no stable design within the rules, or a design past the exact guard): today's figures still show
     try {
-      show('today', "today's design", designFigures(ctx.problem, designDetails(ctx.problem, input.objective ?? 'total', Uint8Array.from(ctx.problem.today))));
+      show('today', "today's design", designFigures(ctx.problem, designDetails(ctx.problem, input.objective ?? 'total', Uint8Array.from(ctx.problem.today)), input.objective ?? 'total'));
     } catch (e) {
       if (!(e instanceof EdgewiseError)) throw e;
     }
