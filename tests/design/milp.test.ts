@@ -98,6 +98,26 @@ describe('MILP stage (HiGHS) against brute force', () => {
     expect(checked).toBeGreaterThanOrEqual(12);
   });
 
+  it('when the design with every toggle off is stable, it is returned as the cheapest without a solve, at the brute-force minimum cost', async () => {
+    // Every price is ≥ 0, so no design costs less than the one with only the fixed pairs (derived by
+    // hand from the cost formula: cost = offset − Σ savings of all removable + Σ prices of toggles on).
+    let shortcut = 0;
+    for (let seed = 201; seed <= 240 && shortcut < 3; seed++) {
+      const rng = new Rng(seed);
+      const p = randomProblem(rng, { minClasses: 5, maxClasses: 7, toggles: rng.int(5, 7), removableShare: 0.4, budgetShare: 0.5, loopProb: 0.9 });
+      if (!bruteStability(designModel(p, 0)).stable) continue;
+      shortcut++;
+      const truth = enumerate(p).filter((d) => d.stable);
+      const cheapest = await cheapestStableDesign(p);
+      expect(cheapest).toBeDefined();
+      expect(cheapest!.solves).toBe(0);
+      expect(cheapest!.proven).toBe(true);
+      expect(cheapest!.cost).toBeCloseTo(Math.min(...truth.map((d) => d.cost)), 9);
+      expect(cheapest!.verifiedMinFlow).toBeCloseTo(maxMinFlow(p, 0), 6);
+    }
+    expect(shortcut).toBeGreaterThanOrEqual(3);
+  });
+
   it("HiGHS's answer satisfies every row of the MILP (checked here, independently of the adapter's check)", async () => {
     const p = smallProblem(107);
     for (const goal of ['max-flow', 'min-cost'] as const) {

@@ -260,7 +260,26 @@ export const CHEAPEST_FLOW_FLOOR = 1e-6;
  * stable only with a smaller margin than that floor are not considered.
  */
 export async function cheapestStableDesign(problem: DesignProblem, solve: MilpSolveOptions = {}): Promise<MilpDesign | undefined> {
-  return solveFlowMilp(problem, { goal: 'min-cost', minFlow: stableFlowFloor(problem) }, solve);
+  return leanestIfStable(problem) ?? solveFlowMilp(problem, { goal: 'min-cost', minFlow: stableFlowFloor(problem) }, solve);
+}
+
+/**
+ * The design with every toggle off (only the fixed pairs) when it is stable with a smallest edge flow
+ * at least the MILP's floor (stableFlowFloor, in units of the mean rate), within maxCompatibilities:
+ * then it is a cheapest stable design without any solve. Proof: a design costs
+ * baseCost + Σ_j p_j x_j with every price p_j ≥ 0 (see flowMilp), so no design costs less than the
+ * one with every x_j = 0, and it satisfies every row of the min-cost MILP (flows from its stability
+ * verdict, t = its smallest edge flow ≥ the floor). Undefined otherwise (the MILP decides).
+ */
+export function leanestIfStable(problem: DesignProblem): MilpDesign | undefined {
+  if (problem.toggles.some((t) => !(t.price >= 0))) return undefined;
+  const design = new Uint8Array(problem.toggles.length);
+  if (!degreesAllowed(problem, design)) return undefined;
+  const verdict = stabilityCut(problem, design);
+  let mean = 0;
+  for (let i = 0; i < problem.n; i++) mean += problem.rates[i]! / problem.n;
+  if (!verdict.stable || !(verdict.minFlow >= stableFlowFloor(problem) * mean)) return undefined;
+  return { design, cost: designCost(problem, design), minFlow: verdict.minFlow, verifiedMinFlow: verdict.minFlow, proven: true, solves: 0 };
 }
 
 /** The floor on t that counts as stable in the min-cost MILPs, in scaled rate units: FLOOR · M. */

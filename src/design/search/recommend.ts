@@ -252,7 +252,7 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       // something to show early: today's design and the cheapest stable one
       await evaluator.evaluate([Uint8Array.from(problem.today), cheapest.design].filter((d) => withinBudget(problem, d) && degreesAllowed(problem, d)));
       const high = Math.min(problem.budget, fullCost(problem));
-      const levels = budgetLadder(cheapest.cost, Math.max(cheapest.cost, high), options.ladderLevels ?? 5);
+      const levels = options.ladderLevels === 0 ? [] : budgetLadder(cheapest.cost, Math.max(cheapest.cost, high), options.ladderLevels ?? 5);
       for (const b of levels) {
         if (stopped()) throw new SearchStopped();
         ladder.push({ budget: b, design: await maxMinFlowDesign(problem, b, solve) });
