@@ -5,9 +5,16 @@
  *
  * Cases (invented, seeded): a ring of classes as today's design, random candidate pairs (self-pairs
  * included) with integer costs 2–25, rates uniform in [0.5, 2], budget a fifth to a quarter of the
- * candidates' total cost. Time and exact evaluations to the front; evaluations as a share of the
- * 2^k designs; on a 14-candidate case, the ratio to an actual exhaustive enumeration. When the build
- * exists (npm run build), the largest case is also run from dist with --jobs 2 on worker threads.
+ * candidates' total cost. CPU time in one thread, split into the MILP stage (until the search
+ * starts) and the rest, exact evaluations to the front, how many of the MILP stage's designs are on
+ * the final front, and a fingerprint of the front (cost and objective to 10 digits) to compare
+ * runs; evaluations as a share of the 2^k designs; on a 14-candidate case, the ratio to an actual
+ * exhaustive enumeration. When the build exists (npm run build), the 20 × 40 case is also run from
+ * dist with --jobs 2 on worker threads.
+ *
+ * Case `contract`: seeded scenario files with 12 or 13 candidates (tests/helpers/random-scenario.ts),
+ * `recommend --json` against `recommend --exhaustive --json` as whole processes of the built CLI:
+ * the time ratio (wall and CPU) and whether the fronts are the same.
  *
  * Case `penalty-reuse`: the penalty check of two larger designs (24 and 30 classes: a ring with a
  * self-pair, a few fixed chords and 8 paid chords, rates from positive flows), i.e. the 8 designs

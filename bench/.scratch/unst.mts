@@ -1,0 +1,10 @@
+import { recommend } from '../../src/design/search/recommend.ts';
+import { DesignEvaluator } from '../../src/design/scoring/evaluator.ts';
+const mod = await import('/work/wt-speed13/bench/.scratch/problems.mts');
+const proto = DesignEvaluator.prototype as any;
+const orig = proto.record;
+let unstableEval = 0, unstableSight = 0, stable = 0, sets = 0;
+proto.record = function (key: string, design: Uint8Array, s: any) { if (s.stable) { stable++; sets += s.independentSets; } else if (s.evaluated) unstableEval++; else unstableSight++; return orig.call(this, key, design, s); };
+const p = mod.CASES[process.argv[2]!]();
+const rec = await recommend(p, { workerUrl: null });
+console.log(process.argv[2], { evaluations: rec.evaluations, scored: rec.scored, stable, unstableEval, unstableSight, meanSets: Math.round(sets / stable) });
