@@ -48,7 +48,8 @@ export function maskGraph(model: CompiledModel): MaskGraph {
     }
   }
   const byteSum = new Float64Array(8 * 256);
-  for (let b = 0; b < 8; b++) {
+  // bytes past the last class stay 0 (every class they would hold is ≥ n)
+  for (let b = 0; b < Math.ceil(n / 8); b++) {
     for (let v = 1; v < 256; v++) {
       const low = v & -v;
       const bit = 31 - Math.clz32(low);

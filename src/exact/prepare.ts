@@ -40,7 +40,9 @@ export function prepareComponents(
         maxSets,
       );
     }
-    const { sub, edgeMap } = subModel(model, members);
+    // one component holding every class: the model is its own sub-model (the same arrays subModel
+    // would rebuild, edges in the same order)
+    const { sub, edgeMap } = members.length === model.n ? { sub: model, edgeMap: identity(model.m) } : subModel(model, members);
     const g = maskGraph(sub);
     const count = countIndependentSets(g, maxSets - total);
     total += count;
@@ -48,6 +50,12 @@ export function prepareComponents(
     parts.push({ members, sub, edgeMap, g, count });
   }
   return { parts, total, of: comps.of };
+}
+
+function identity(m: number): Int32Array {
+  const out = new Int32Array(m);
+  for (let e = 0; e < m; e++) out[e] = e;
+  return out;
 }
 
 /** The refusal used whenever a count passes a memory guard. */

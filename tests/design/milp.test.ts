@@ -1,6 +1,6 @@
 import * as jslpModule from 'javascript-lp-solver';
 import { describe, expect, it } from 'vitest';
-import { cheapestStableDesign, flowMilp, maxMinFlowDesign, budgetLadder } from '../../src/design/search/milp.js';
+import { cheapestByCuts, cheapestStableDesign, flowMilp, solveFlowMilp, stableFlowFloor, maxMinFlowDesign, budgetLadder } from '../../src/design/search/milp.js';
 import type { DesignProblem, Toggle } from '../../src/design/space/problem.js';
 import { solveWithHighs } from '../../src/solvers/highs.js';
 import { bruteStability } from '../helpers/brute-stability.js';
@@ -98,6 +98,48 @@ describe('MILP stage (HiGHS) against brute force', () => {
     expect(checked).toBeGreaterThanOrEqual(12);
   });
 
+  it('when the design with every toggle off is stable, it is returned as the cheapest without a solve, at the brute-force minimum cost', async () => {
+    // Every price is ≥ 0, so no design costs less than the one with only the fixed pairs (derived by
+    // hand from the cost formula: cost = offset − Σ savings of all removable + Σ prices of toggles on).
+    let shortcut = 0;
+    for (let seed = 201; seed <= 240 && shortcut < 3; seed++) {
+      const rng = new Rng(seed);
+      const p = randomProblem(rng, { minClasses: 5, maxClasses: 7, toggles: rng.int(5, 7), removableShare: 0.4, budgetShare: 0.5, loopProb: 0.9 });
+      if (!bruteStability(designModel(p, 0)).stable) continue;
+      shortcut++;
+      const truth = enumerate(p).filter((d) => d.stable);
+      const cheapest = await cheapestStableDesign(p);
+      expect(cheapest).toBeDefined();
+      expect(cheapest!.solves).toBe(0);
+      expect(cheapest!.proven).toBe(true);
+      expect(cheapest!.cost).toBeCloseTo(Math.min(...truth.map((d) => d.cost)), 9);
+      expect(cheapest!.verifiedMinFlow).toBeCloseTo(maxMinFlow(p, 0), 6);
+    }
+    expect(shortcut).toBeGreaterThanOrEqual(3);
+  });
+
+  it('the uniform-cost search over stability cuts finds the brute-force cheapest stable design without HiGHS', async () => {
+    let searched = 0;
+    for (let seed = 301; seed <= 330; seed++) {
+      const rng = new Rng(seed);
+      const p = randomProblem(rng, { minClasses: 5, maxClasses: 7, toggles: rng.int(6, 8), removableShare: 0.4, budgetShare: 0.5, loopProb: 0.2 });
+      if (bruteStability(designModel(p, 0)).stable) continue; // the other shortcut's case
+      const stable = enumerate(p).filter((d) => d.stable && d.t > 0);
+      const got = cheapestByCuts(p);
+      if (stable.length === 0) {
+        expect(got).toBeUndefined();
+        continue;
+      }
+      if (!got) continue; // left to HiGHS (node limit or a margin below the floor)
+      searched++;
+      expect(got.solves).toBe(0);
+      expect(bruteStability(designModel(p, maskOf(got.design))).stable).toBe(true);
+      expect(got.cost).toBeCloseTo(bruteCost(p, maskOf(got.design)), 9);
+      expect(got.cost).toBeCloseTo(Math.min(...stable.map((d) => d.cost)), 9);
+    }
+    expect(searched).toBeGreaterThanOrEqual(8);
+  });
+
   it("HiGHS's answer satisfies every row of the MILP (checked here, independently of the adapter's check)", async () => {
     const p = smallProblem(107);
     for (const goal of ['max-flow', 'min-cost'] as const) {
@@ -160,10 +202,14 @@ describe('MILP stage (HiGHS) against brute force', () => {
       waitingCost: 0,
       hasValues: false,
     };
-    const cheapest = await cheapestStableDesign(p);
+    // the MILP's own loop (HiGHS, then a cut), and the search over the same cuts without HiGHS
+    const cheapest = await solveFlowMilp(p, { goal: 'min-cost', minFlow: stableFlowFloor(p) });
     expect(cheapest!.cost).toBe(3);
     expect(Array.from(cheapest!.design)).toEqual([1, 0, 1, 1]);
     expect(cheapest!.solves).toBeGreaterThanOrEqual(2);
+    const byCuts = await cheapestStableDesign(p);
+    expect(byCuts!.cost).toBe(3);
+    expect(Array.from(byCuts!.design)).toEqual([1, 0, 1, 1]);
     expect(cheapest!.verifiedMinFlow).toBeCloseTo(0.5, 9);
     // with a budget of 2 no stable design exists (the triangle costs 3)
     expect(await maxMinFlowDesign(p, 2)).toBeUndefined();

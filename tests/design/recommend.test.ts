@@ -7,6 +7,10 @@ import { bruteStability } from '../helpers/brute-stability.js';
 import { allDesigns, bruteCost, bruteFront, bruteObjective, designModel, type BruteObjective } from '../helpers/design-brute.js';
 import { randomProblem } from '../helpers/design-problems.js';
 import { Rng } from '../helpers/random.js';
+import { randomScenario } from '../helpers/random-scenario.js';
+import { parseScenario } from '../../src/model/validate.js';
+import { readDesignFields } from '../../src/model/design-fields.js';
+import { designProblem } from '../../src/design/space/problem.js';
 
 // The recommender against brute force written from the definitions (tests/helpers/design-brute.ts):
 // every design enumerated, stability by brute force over independent sets ("Stability of the
@@ -129,4 +133,31 @@ describe('recommend: constraints and other objectives', () => {
       expect(d.cost).toBeLessThanOrEqual(p.budget + 1e-9);
     }
   });
+});
+
+// Scenario files like the ones analysts bring (tests/helpers/random-scenario.ts: groups of classes
+// joined along a chain, stable today by construction), with 10–13 candidates and a few removable
+// compatibilities or none. The default search (no MILP budget ladder; the cheapest stable design
+// often known without a solve) must return the front of every subset enumerated here, each scored
+// by a fresh evaluateExact and judged by brute force (tests/helpers/design-brute.ts: stability over
+// independent sets, the flexibility penalty and the Pareto filter written from their definitions).
+describe('recommend: the default search returns the enumerated front on seeded scenario files with 10–13 candidates', () => {
+  const cases = [
+    { seed: 61, groups: 3, perGroup: 4, candidates: 10, removableShare: 0, budgetShare: 0.5 },
+    { seed: 62, groups: 4, perGroup: 3, candidates: 12, removableShare: 0, budgetShare: 0.4 },
+    { seed: 63, groups: 3, perGroup: 4, candidates: 11, removableShare: 0.1, budgetShare: 0.6 },
+    { seed: 64, groups: 4, perGroup: 3, candidates: 13, removableShare: 0, budgetShare: 1 },
+  ];
+  for (const c of cases) {
+    it(`seed ${c.seed}: ${c.groups * c.perGroup} classes, ${c.candidates} candidates`, async () => {
+      const s = parseScenario(JSON.stringify(randomScenario(c.seed, c).doc));
+      const p = designProblem(s, readDesignFields(s));
+      expect(p.toggles.length).toBeGreaterThanOrEqual(10);
+      expect(p.toggles.length).toBeLessThanOrEqual(14);
+      const expected = bruteFront(p, allDesigns(p, 'total'));
+      expect(expected.length).toBeGreaterThanOrEqual(3);
+      const search = await recommend(p, { workerUrl: null });
+      checkAgainstBrute(p, 'total', search, expected);
+    });
+  }
 });

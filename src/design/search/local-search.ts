@@ -22,7 +22,8 @@
  */
 import { admissibleBeforeEvaluation, designKey, type DesignProblem } from '../space/problem.js';
 import type { DesignEvaluator, DesignRecord, Origin } from '../scoring/evaluator.js';
-import { comparePoints, paretoFront, paretoLayers } from '../space/pareto.js';
+import { comparePoints, paretoFront } from '../space/pareto.js';
+import { lower } from '../space/objective.js';
 import { penaltyVerdict } from '../space/penalty.js';
 import { SearchStopped } from '../scoring/scorer.js';
 
@@ -96,6 +97,44 @@ export class SearchState {
     return [...paretoFront(ignoring), ...paretoFront(missing).map((m) => m.record)];
   }
 
+  /** The pool sorted by comparePoints, kept up to date as designs are scored or refused. */
+  private sorted: DesignRecord[] = [];
+  /** Records of the evaluator already merged into `sorted`, and refusals already filtered out. */
+  private merged = 0;
+  private filtered = 0;
+
+  /**
+   * The first `depth` Pareto layers of the pool: the same as paretoLayers(pool(), depth) (the sweep
+   * order is a total order, so a sorted pool gives the same layers), without sorting the whole pool
+   * every round: new records are sorted among themselves and merged in.
+   */
+  layers(depth: number): DesignRecord[][] {
+    if (this.evaluator.size > this.merged) {
+      const fresh: DesignRecord[] = [];
+      let i = 0;
+      for (const r of this.evaluator.records()) {
+        if (i++ < this.merged) continue;
+        if (r.feasible && !this.harmful.has(r.key)) fresh.push(r);
+      }
+      this.merged = this.evaluator.size;
+      fresh.sort(comparePoints);
+      this.sorted = mergeSorted(this.sorted, fresh);
+    }
+    if (this.harmful.size > this.filtered) {
+      this.sorted = this.sorted.filter((r) => !this.harmful.has(r.key));
+      this.filtered = this.harmful.size;
+    }
+    const out: DesignRecord[][] = [];
+    let rest = this.sorted;
+    for (let d = 0; d < depth && rest.length > 0; d++) {
+      const front = sweepSorted(rest);
+      out.push(front);
+      const taken = new Set(front);
+      rest = rest.filter((r) => !taken.has(r));
+    }
+    return out;
+  }
+
   /** Feasible scored designs not refused by the penalty. */
   pool(): DesignRecord[] {
     const out: DesignRecord[] = [];
@@ -110,6 +149,32 @@ export class SearchState {
     if (v.harmful.length > 0) this.harmful.set(r.key, v.harmful);
     return true;
   }
+}
+
+/** Merges two arrays sorted by comparePoints. */
+function mergeSorted(a: readonly DesignRecord[], b: readonly DesignRecord[]): DesignRecord[] {
+  if (b.length === 0) return a as DesignRecord[];
+  const out: DesignRecord[] = new Array<DesignRecord>(a.length + b.length);
+  let i = 0;
+  let j = 0;
+  let o = 0;
+  while (i < a.length && j < b.length) out[o++] = comparePoints(a[i]!, b[j]!) <= 0 ? a[i++]! : b[j++]!;
+  while (i < a.length) out[o++] = a[i++]!;
+  while (j < b.length) out[o++] = b[j++]!;
+  return out;
+}
+
+/** paretoFront of points already sorted by comparePoints (its sweep, without the sort). */
+function sweepSorted(sorted: readonly DesignRecord[]): DesignRecord[] {
+  const out: DesignRecord[] = [];
+  let best = Infinity;
+  for (const p of sorted) {
+    if (lower(p.objective, best)) {
+      out.push(p);
+      best = p.objective;
+    }
+  }
+  return out;
 }
 
 /** Random kicks from front designs: 2 or 3 toggles flipped, kept when within budget and limits and new. */
@@ -179,7 +244,7 @@ async function searchRounds(
   const problem = evaluator.problem;
   let rounds = 0;
   for (;;) {
-    const layers = paretoLayers(state.pool(), depth);
+    const layers = state.layers(depth);
     // the front gets flips and swaps; deeper layers get flips only
     const levels = new Map<string, { r: DesignRecord; level: number }>();
     const want = (r: DesignRecord, level: number): void => {

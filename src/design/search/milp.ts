@@ -260,7 +260,90 @@ export const CHEAPEST_FLOW_FLOOR = 1e-6;
  * stable only with a smaller margin than that floor are not considered.
  */
 export async function cheapestStableDesign(problem: DesignProblem, solve: MilpSolveOptions = {}): Promise<MilpDesign | undefined> {
-  return solveFlowMilp(problem, { goal: 'min-cost', minFlow: stableFlowFloor(problem) }, solve);
+  return leanestIfStable(problem) ?? cheapestByCuts(problem) ?? solveFlowMilp(problem, { goal: 'min-cost', minFlow: stableFlowFloor(problem) }, solve);
+}
+
+/** Designs the cut search of cheapestByCuts may judge before it leaves the question to HiGHS. */
+export const CUT_SEARCH_NODES = 300;
+
+/**
+ * The cheapest stable design by a uniform-cost search over the stability cuts, without HiGHS, when it
+ * ends within CUT_SEARCH_NODES stability verdicts (undefined otherwise, or when a design is stable
+ * only with a smaller edge flow than the MILP's floor: the MILP decides then).
+ *
+ * From the design with every toggle off, a node that is unstable with certificate I branches on the
+ * toggles of its cut (off, and joining a class of I to one outside N(I), or within I): child i
+ * switches on the i-th of them and forbids the ones before it. Nodes are taken cheapest first (ties:
+ * the order they were made). Exactness: every stable design S holds the cut of every design it
+ * contains that is unstable (see the top of this file: dropping compatibilities never relieves I,
+ * nor does adding one that misses I or touches N(I)), so following, from the root, the child whose
+ * switched toggle is the first of the cut in S gives a chain of nodes contained in S, each allowed
+ * by its forbidden toggles, ending at a stable node; prices are ≥ 0, so every node of the chain
+ * costs at most cost(S), and the first stable node taken costs at most any stable design's cost.
+ * Nodes beyond maxCompatibilities are dropped (adding toggles only raises degrees).
+ */
+export function cheapestByCuts(problem: DesignProblem, maxNodes = CUT_SEARCH_NODES): MilpDesign | undefined {
+  const k = problem.toggles.length;
+  if (problem.toggles.some((t) => !(t.price >= 0))) return undefined;
+  let mean = 0;
+  for (let i = 0; i < problem.n; i++) mean += problem.rates[i]! / problem.n;
+  const floor = stableFlowFloor(problem) * mean;
+  interface Node {
+    readonly design: Uint8Array;
+    readonly forbidden: Uint8Array;
+    readonly cost: number;
+    readonly order: number;
+  }
+  let made = 0;
+  const open: Node[] = [{ design: new Uint8Array(k), forbidden: new Uint8Array(k), cost: designCost(problem, new Uint8Array(k)), order: made++ }];
+  for (let judged = 0; judged < maxNodes && open.length > 0; judged++) {
+    let at = 0;
+    for (let i = 1; i < open.length; i++) {
+      const a = open[i]!;
+      const b = open[at]!;
+      if (a.cost < b.cost || (a.cost === b.cost && a.order < b.order)) at = i;
+    }
+    const node = open.splice(at, 1)[0]!;
+    if (!degreesAllowed(problem, node.design)) continue;
+    const model = compileGraph(problem.ids, problem.rates, designPairs(problem, node.design));
+    const report = checkStability(model);
+    if (report.stable) {
+      let minFlow = Infinity;
+      for (const c of report.components) minFlow = Math.min(minFlow, c.minEdgeFlow ?? Infinity);
+      if (!(minFlow >= floor)) return undefined;
+      return { design: node.design, cost: node.cost, minFlow, verifiedMinFlow: minFlow, proven: true, solves: 0 };
+    }
+    const cut = relievingCut(problem, node.design, report.certificate!);
+    if (!cut) continue;
+    const forbidden = Uint8Array.from(node.forbidden);
+    for (const j of cut.toggles) {
+      if (forbidden[j]) continue;
+      const design = Uint8Array.from(node.design);
+      design[j] = 1;
+      open.push({ design, forbidden: Uint8Array.from(forbidden), cost: designCost(problem, design), order: made++ });
+      forbidden[j] = 1;
+    }
+  }
+  return undefined;
+}
+
+/**
+ * The design with every toggle off (only the fixed pairs) when it is stable with a smallest edge flow
+ * at least the MILP's floor (stableFlowFloor, in units of the mean rate), within maxCompatibilities:
+ * then it is a cheapest stable design without any solve. Proof: a design costs
+ * baseCost + Σ_j p_j x_j with every price p_j ≥ 0 (see flowMilp), so no design costs less than the
+ * one with every x_j = 0, and it satisfies every row of the min-cost MILP (flows from its stability
+ * verdict, t = its smallest edge flow ≥ the floor). Undefined otherwise (the MILP decides).
+ */
+export function leanestIfStable(problem: DesignProblem): MilpDesign | undefined {
+  if (problem.toggles.some((t) => !(t.price >= 0))) return undefined;
+  const design = new Uint8Array(problem.toggles.length);
+  if (!degreesAllowed(problem, design)) return undefined;
+  const verdict = stabilityCut(problem, design);
+  let mean = 0;
+  for (let i = 0; i < problem.n; i++) mean += problem.rates[i]! / problem.n;
+  if (!verdict.stable || !(verdict.minFlow >= stableFlowFloor(problem) * mean)) return undefined;
+  return { design, cost: designCost(problem, design), minFlow: verdict.minFlow, verifiedMinFlow: verdict.minFlow, proven: true, solves: 0 };
 }
 
 /** The floor on t that counts as stable in the min-cost MILPs, in scaled rate units: FLOOR · M. */

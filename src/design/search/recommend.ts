@@ -1,8 +1,13 @@
 /**
  * The design recommender: the cost/objective Pareto set of the designs within a budget.
  *
- * 1. MILP stage (milp.ts, HiGHS): the cheapest stable design, and for a ladder of budget levels the
- *    design that maximises the smallest edge flow; each answer verified with checkStability.
+ * 1. MILP stage (milp.ts, HiGHS): the cheapest stable design (without a solve when the design with
+ *    only the fixed pairs is stable), and, when asked (`ladderLevels`; --exhaustive keeps five levels
+ *    for its record), for a ladder of budget levels the design that maximises the smallest edge flow;
+ *    each answer verified with checkStability. The search runs no ladder by default: on the bench
+ *    problems and 24 seeded 10–13-toggle problems its designs were found by the search anyway, the
+ *    fronts were the same without them, and it took most of the time of small problems
+ *    (bench/recommend.ts prints the figures).
  * 2. Pareto local search (local-search.ts) from today's design, the MILP designs and the baselines,
  *    or, with `exhaustive`, every design (exhaustive.ts). Scoring runs on worker threads (pool.ts);
  *    designs one toggle from a scored design may be scored by reuse of its single-change preparation
@@ -58,7 +63,7 @@ export interface RecommendOptions {
   readonly seed?: number;
   /** Memory guard of the exact evaluator (independent sets per design). */
   readonly maxSets?: number;
-  /** Budget levels of the MILP ladder (default 5). */
+  /** Budget levels of the MILP ladder (default: none for the search, 5 with `exhaustive`; 0: none). */
   readonly ladderLevels?: number;
   /** Wall-clock limit of one MILP solve, seconds (default 30). */
   readonly milpTimeLimitSeconds?: number;
@@ -263,7 +268,8 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       // something to show early: today's design and the cheapest stable one
       await evaluator.evaluate([Uint8Array.from(problem.today), cheapest.design].filter((d) => withinBudget(problem, d) && degreesAllowed(problem, d)));
       const high = Math.min(problem.budget, fullCost(problem));
-      const levels = budgetLadder(cheapest.cost, Math.max(cheapest.cost, high), options.ladderLevels ?? 5);
+      const ladderLevels = options.ladderLevels ?? (options.exhaustive ? 5 : 0);
+      const levels = ladderLevels === 0 ? [] : budgetLadder(cheapest.cost, Math.max(cheapest.cost, high), ladderLevels);
       for (const b of levels) {
         if (stopped()) throw new SearchStopped();
         ladder.push({ budget: b, design: await maxMinFlowDesign(problem, b, solve) });
