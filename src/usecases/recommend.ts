@@ -17,7 +17,7 @@ import { recordBase } from './context.js';
 import { changePairs, designFigures, verdictRecord, type DesignFigures, type VerdictRecord } from './designs.js';
 import { instabilityOf } from './instability.js';
 import { finite, pairIds, type InstabilityRecord, type RepairRecord, type PairIds, type RecordBase } from './records.js';
-import { exactWarnings } from './warnings.js';
+import { exactWarnings, scoringWarnings } from './warnings.js';
 import { checkDesignSize } from './limits.js';
 import { LP_DIGITS, num, roundFigure } from '../output/format.js';
 
@@ -104,7 +104,8 @@ function mergedFront(ctx: ScenarioContext, pareto: readonly DesignDetails[], ext
 /** Recommendation → the decision: recommended design, verdicts, the front it sits on. */
 export function decisionOf(ctx: ScenarioContext, rec: Recommendation, input: RecommendInput): { decision: Decision | null; pareto: DesignDetails[]; recommended: DesignDetails } {
   const pick = rec.pareto.reduce((best, d) => (d.objective < best.objective ? d : best));
-  if (rec.partial) return { decision: null, pareto: rec.pareto, recommended: pick };
+  // single-change verdicts are exact; a simulated pick gets none (the record says so)
+  if (rec.partial || pick.method === 'simulation') return { decision: null, pareto: rec.pareto, recommended: pick };
   const decision = decide(ctx.problem, input.objective, pick.design, input.maxSets === undefined ? {} : { maxSets: input.maxSets });
   const same = decision.improvements === 0;
   const recommended = same ? pick : designDetails(ctx.problem, input.objective, decision.design, input.maxSets);
@@ -148,14 +149,15 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
     throw e;
   }
   const parts = decisionOf(ctx, rec, input);
-  const todayDetails = designDetails(p, input.objective, Uint8Array.from(p.today), input.maxSets);
+  const todayDetails = rec.today ?? designDetails(p, input.objective, Uint8Array.from(p.today), input.maxSets);
   const decision = decisionPart(ctx, input, parts, todayDetails);
   const recommendedKey = parts.recommended.key;
   const front = parts.pareto;
   const pair = (j: number): PairIds => pairIds(p, p.toggles[j]!.a, p.toggles[j]!.b);
   const milpEntry = (m: Recommendation['milp']['cheapest']): MilpEntry => ({ cost: m.cost, ...changePairs(p, m.design), flowMargin: Number.isFinite(m.verifiedMinFlow) ? roundFigure(m.verifiedMinFlow, LP_DIGITS) : null, proven: m.proven });
+  const simulatedFront = front.some((d) => d.method === 'simulation');
   const warnings = [
-    ...exactWarnings(ctx, 'The figures of every design'),
+    ...(input.score === undefined || input.score === 'exact' ? exactWarnings(ctx, 'The figures of every design') : scoringWarnings(ctx, input.score, rec, simulatedFront)),
     rec.partial ? 'interrupted: the Pareto set is what the search had found so far; designs not yet checked for harmful paid compatibilities may be in it, and no verdicts were computed' : null,
   ];
   return {
