@@ -39,13 +39,13 @@ export interface SimPlan {
 
 /** The cheap plan of the search: enough to rank designs, not to report them. */
 export function searchPlan(seed: number, n: number): SimPlan {
-  const arrivals = Math.max(40_000, Math.min(120_000, n * 1_500));
-  return { arrivals, warmup: Math.floor(arrivals / 4), replications: 5, seed, maxWaiting: 2_000_000 };
+  const arrivals = Math.max(20_000, Math.min(60_000, n * 600));
+  return { arrivals, warmup: Math.floor(arrivals / 4), replications: 3, seed, maxWaiting: 2_000_000 };
 }
 
 /** The longer plan of the designs returned (Pareto set, baselines, `evaluate`): intervals to report. */
 export function reportPlan(seed: number, n: number): SimPlan {
-  const arrivals = Math.max(200_000, Math.min(600_000, n * 6_000));
+  const arrivals = Math.max(60_000, Math.min(300_000, n * 3_000));
   // a stream of its own (seed offset), so the figures reported are not those the search selected on
   return { arrivals, warmup: Math.floor(arrivals / 5), replications: 10, seed: seed + 1_000_003, maxWaiting: 5_000_000 };
 }

@@ -20,7 +20,7 @@ import { checkStability } from '../../stability/check.js';
 import { seededRandom } from '../../random.js';
 import { baselines as buildBaselines, type BaselineName } from './baselines.js';
 import { DesignEvaluator, scoreSpecOf, type DesignRecord, type ScoringChoice } from '../scoring/evaluator.js';
-import type { Score, ScoreMethod } from '../scoring/score.js';
+import { simulatesAlways, type Score, type ScoreMethod } from '../scoring/score.js';
 import { pairedDifference, reportPlan, searchPlan, type Interval, type PairedDifference } from '../scoring/sim-score.js';
 import { exhaustiveSearch, MAX_EXHAUSTIVE_TOGGLES } from './exhaustive.js';
 import { paretoLocalSearch } from './local-search.js';
@@ -308,6 +308,7 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
   const spec = scoreSpecOf(problem, objective, options.maxSets, choice(searchPlan(seed, problem.n)));
   // the designs returned are scored again with the longer plan (its own stream, the same for all)
   const finalChoice = choice(reportPlan(seed, problem.n));
+  const simulatesAll = simulatesAlways(spec);
   const finalSpec = finalChoice ? { ...scoreSpecOf(problem, objective, options.maxSets, finalChoice), perClass: true } : undefined;
   const url = options.workerUrl === null ? undefined : (options.workerUrl ?? workerScriptUrl());
   const scorer = createScorer(spec, options.jobs ?? 1, url, options.signal);
@@ -355,9 +356,11 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
         phase = 'search';
         const r = await paretoLocalSearch(evaluator, seeds, {
           random: seededRandom(options.seed ?? 1),
-          depth: options.depth ?? (objective === 'max-wait' ? 4 : 2),
-          ...(options.kicks === undefined ? {} : { kicks: options.kicks }),
-          ...(options.swapLayers === undefined ? {} : { swapLayers: options.swapLayers }),
+          // a simulated search expands the first layer only, swaps there, and kicks less: each
+          // simulated design costs about as much as thousands of small exact ones
+          depth: options.depth ?? (method === 'simulation' || simulatesAll ? 1 : objective === 'max-wait' ? 4 : 2),
+          ...(options.kicks === undefined ? (method === 'simulation' || simulatesAll ? { kicks: Math.min(problem.toggles.length, 10) } : {}) : { kicks: options.kicks }),
+          ...(options.swapLayers === undefined ? (method === 'simulation' || simulatesAll ? { swapLayers: 1 } : {}) : { swapLayers: options.swapLayers }),
         });
         ({ front, harmful } = r);
         partial = r.stopped;
