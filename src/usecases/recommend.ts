@@ -65,6 +65,8 @@ export interface RecommendRecord extends RecordBase, DecisionPart {
   readonly baselines: BaselineEntry[];
   readonly search: {
     readonly evaluations: number;
+    /** Of the designs scored, those scored by simulation (0 or absent: all exact). */
+    readonly simulated?: number;
     readonly scored: number;
     readonly toggles: number;
     /** 2^toggles (null when beyond 2^53). */
@@ -179,6 +181,7 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
     })),
     search: {
       evaluations: rec.evaluations,
+      ...(rec.simulated ? { simulated: rec.simulated } : {}),
       scored: rec.scored,
       toggles: rec.toggles,
       designSpace: rec.toggles <= 53 ? rec.designSpace : null,
