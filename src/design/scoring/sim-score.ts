@@ -91,7 +91,7 @@ export function simulateDesign(original: CompiledModel, plan: SimPlan, patience?
   const states = streamStates(plan.seed, plan.replications);
   const n = working.n;
   const R = plan.replications;
-  const rep = { arrivals: plan.arrivals, warmup: plan.warmup, maxWaiting: plan.maxWaiting, timed: false };
+  const rep = { arrivals: plan.arrivals, warmup: plan.warmup, maxWaiting: plan.maxWaiting, timed: false, noQuantiles: true };
   const totals = new Float64Array(R);
   const perClass = Array.from({ length: n }, () => new Float64Array(R));
   const abandonPer = Array.from({ length: n }, () => new Float64Array(R));
