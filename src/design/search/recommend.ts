@@ -356,11 +356,11 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
         phase = 'search';
         const r = await paretoLocalSearch(evaluator, seeds, {
           random: seededRandom(options.seed ?? 1),
-          // a simulated search expands the first layer only, swaps there, and kicks less: each
+          // a simulated search expands the first layer only, without swaps, and kicks less: each
           // simulated design costs about as much as thousands of small exact ones
           depth: options.depth ?? (method === 'simulation' || simulatesAll ? 1 : objective === 'max-wait' ? 4 : 2),
           ...(options.kicks === undefined ? (method === 'simulation' || simulatesAll ? { kicks: Math.min(problem.toggles.length, 10) } : {}) : { kicks: options.kicks }),
-          ...(options.swapLayers === undefined ? (method === 'simulation' || simulatesAll ? { swapLayers: 1 } : {}) : { swapLayers: options.swapLayers }),
+          ...(options.swapLayers === undefined ? (method === 'simulation' || simulatesAll ? { swapLayers: 0 } : {}) : { swapLayers: options.swapLayers }),
         });
         ({ front, harmful } = r);
         partial = r.stopped;
