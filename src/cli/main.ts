@@ -82,6 +82,9 @@ scenarioFlags(program.command('check').description('is the design stable, how mu
 scenarioFlags(program.command('evaluate').description('exact steady state under FCFM: backlog, waits, matches at once, where matches happen'))
   .addOption(new Option('--max-sets <n>', 'refuse above this many independent sets (memory guard)').argParser(Number))
   .option('--wait-unit <unit>', 'show waits in this unit: second, minute, hour, day or week (default: automatic)')
+  .option('--score <method>', 'exact | simulation | auto (default): exact where feasible and no patience, else simulated with 95 % intervals')
+  .option('--seed <s>', 'seed of the simulation when the figures are simulated (default 1)')
+  .option('--jobs <j>', 'worker threads of the simulation (default 1); the output does not depend on it')
   .action((file: string, opts: Record<string, unknown>) => action('evaluate', async () => (await import('./commands/evaluate.js')).evaluateCommand)({ ...opts, file }));
 
 scenarioFlags(program.command('simulate').description('simulate a matching policy: backlog, waits and percentiles, abandonment, with 95 % intervals'))
@@ -114,7 +117,8 @@ scenarioFlags(program.command('recommend').description('budgeted design: the Par
   .addOption(new Option('--objective <name>', 'total | weighted | max-wait | net-value (value of matches − waiting cost; needs values in the file)').default('total'))
   .option('--jobs <j>', 'worker threads scoring designs (default 1); the output does not depend on it')
   .option('--exhaustive', 'enumerate every design (at most 20 removable compatibilities and candidates)')
-  .option('--seed <s>', 'seed of the local search (default 1)')
+  .option('--seed <s>', 'seed of the local search and of the simulation streams (default 1)')
+  .option('--score <method>', 'exact | simulation | auto (default): exact where feasible and no patience, else simulated per design')
   .addOption(new Option('--max-sets <n>', 'memory guard of the exact evaluation (independent sets per design)').argParser(Number))
   .option('--wait-unit <unit>', 'show waits in this unit (default: automatic)')
   .option('--save <file>', 'write the recommended design (or --pick K) to a design file for --design')

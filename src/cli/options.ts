@@ -35,3 +35,10 @@ export function finiteNumber(value: unknown, flag: string, min = -Infinity): num
   if (!(Number.isFinite(n) && n >= min)) throw new UsageError(`${flag} must be a number${min > -Infinity ? ` >= ${min}` : ''}, got ${JSON.stringify(value)}`);
   return n;
 }
+
+/** --score: exact | simulation | auto (default auto). */
+export function scoreMethod(value: unknown): 'exact' | 'simulation' | 'auto' {
+  if (value === undefined) return 'auto';
+  if (value === 'exact' || value === 'simulation' || value === 'auto') return value;
+  throw new UsageError(`--score must be one of exact, simulation, auto, got ${JSON.stringify(value)}`);
+}

@@ -38,7 +38,7 @@ export function runReplication(
   // the patient engine's clock counts arrivals; one arrival lasts 1/Λ on average
   const duration = timed ? engine.clock - start : plan.arrivals / model.totalRate;
   const clockScale = timed ? 1 : 1 / model.totalRate;
-  return summarise(model, engine.counters, index, plan.arrivals, duration, engine.clock - start, clockScale);
+  return summarise(model, engine.counters, index, plan.arrivals, duration, engine.clock - start, clockScale, plan.noQuantiles === true);
 }
 
 function summarise(
@@ -49,6 +49,7 @@ function summarise(
   duration: number,
   clockSpan: number,
   clockScale: number,
+  noQuantiles = false,
 ): ReplicationRecord {
   const { n, m } = model;
   const bins = c.bins;
@@ -79,11 +80,11 @@ function summarise(
     c.hist[k * bins] = c.immediate[k]!; // bin 0: matched on arrival
     for (let b = 0; b < bins; b++) totalHist[b] += c.hist[k * bins + b]!;
     QUANTILE_LEVELS.forEach((p, i) => {
-      waitQuantiles[k * QUANTILE_LEVELS.length + i] = waitQuantile(c.kind, c.hist, k * bins, bins, model.totalRate, p);
+      waitQuantiles[k * QUANTILE_LEVELS.length + i] = noQuantiles ? NaN : waitQuantile(c.kind, c.hist, k * bins, bins, model.totalRate, p);
     });
   }
   QUANTILE_LEVELS.forEach((p, i) => {
-    waitQuantiles[n * QUANTILE_LEVELS.length + i] = waitQuantile(c.kind, totalHist, 0, bins, model.totalRate, p);
+    waitQuantiles[n * QUANTILE_LEVELS.length + i] = noQuantiles ? NaN : waitQuantile(c.kind, totalHist, 0, bins, model.totalRate, p);
   });
   const matchRates = new Float64Array(m);
   for (let e = 0; e < m; e++) matchRates[e] = c.edgeMatches[e]! / duration;

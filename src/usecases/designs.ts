@@ -43,6 +43,17 @@ export interface DesignFigures {
   /** The least flow on a compatibility, maximised over edge flows: how far from the stability boundary (null when unstable). */
   readonly flowMargin: number | null;
   readonly independentSets: number | null;
+  /** Simulated: 95 % interval of each class's mean wait. */
+  readonly waitsCi95?: Record<string, [number, number]>;
+  /** Simulated with patience: the share of arrivals that abandon, over all and per class. */
+  readonly abandonShare?: number;
+  readonly abandonShareByClass?: Record<string, number | null>;
+  /**
+   * On a simulated front: this design's backlog minus the next cheaper design's, paired under
+   * common random numbers, with its 95 % interval; `significant` when the interval excludes 0
+   * (otherwise the two designs are not distinguishable by this simulation).
+   */
+  readonly vsCheaper?: { readonly backlogDifference: number; readonly ci95: [number, number] | null; readonly significant: boolean };
 }
 
 /** Added and dropped pairs of a design (forced removals of forbidden pairs first among the dropped). */
@@ -63,8 +74,9 @@ export function designFigures(problem: DesignProblem, d: DesignDetails, objectiv
     ...changePairs(problem, d.design),
     cost: d.cost,
     stable: d.stable,
-    method: 'exact',
+    method: d.method ?? 'exact',
     backlog: d.stable ? finite(d.backlogTotal) : null,
+    ...(d.stable && d.backlogCi95 ? { backlogCi95: [d.backlogCi95[0], d.backlogCi95[1]] as [number, number] } : {}),
     objective: d.stable ? finite(objectiveSign(objective) * d.objective) : null,
     ...valueFigures(problem, d),
     maxWait: d.stable ? finite(d.maxWait) : null,
@@ -72,7 +84,14 @@ export function designFigures(problem: DesignProblem, d: DesignDetails, objectiv
     waits: d.wait ? byClass(problem.ids, d.wait) : null,
     spareCapacity: d.stable ? finite(d.bottleneckSlack) : null,
     flowMargin: d.stable && Number.isFinite(d.minEdgeFlow) ? roundFigure(d.minEdgeFlow, LP_DIGITS) : null,
-    independentSets: d.stable ? d.independentSets : null,
+    independentSets: d.stable && d.method !== 'simulation' ? d.independentSets : null,
+    ...(d.stable && d.waitLo && d.waitHi ? { waitsCi95: intervalsByClass(problem.ids, d.waitLo, d.waitHi) } : {}),
+    ...(d.stable && d.abandonShare && d.abandonShareTotal !== undefined && d.abandonShareTotal > 0
+      ? { abandonShare: d.abandonShareTotal, abandonShareByClass: byClass(problem.ids, d.abandonShare) }
+      : {}),
+    ...(d.vsCheaper && Number.isFinite(d.vsCheaper.mean)
+      ? { vsCheaper: { backlogDifference: d.vsCheaper.mean, ci95: d.vsCheaper.ci95 ? [d.vsCheaper.ci95[0], d.vsCheaper.ci95[1]] : null, significant: d.vsCheaper.significant } }
+      : {}),
   };
 }
 
@@ -81,6 +100,15 @@ function valueFigures(problem: DesignProblem, d: DesignDetails): Pick<DesignFigu
   if (!d.stable || !problem.hasValues || !Number.isFinite(d.valueRate)) return { valueRate: null, waitingCostRate: null, netValue: null };
   const waiting = problem.waitingCost * d.backlogTotal;
   return { valueRate: finite(d.valueRate), waitingCostRate: finite(waiting), netValue: finite(d.valueRate - waiting) };
+}
+
+/** Per-class intervals keyed by id (classes without a finite interval left out). */
+export function intervalsByClass(ids: readonly string[], lo: ArrayLike<number>, hi: ArrayLike<number>): Record<string, [number, number]> {
+  const out: Record<string, [number, number]> = {};
+  ids.forEach((id, k) => {
+    if (Number.isFinite(lo[k]!) && Number.isFinite(hi[k]!)) out[id] = [lo[k]!, hi[k]!];
+  });
+  return out;
 }
 
 export interface VerdictRecord {

@@ -4,6 +4,12 @@
  * compatibility — exact, from the product form.
  */
 import { evaluateExact, DEFAULT_MAX_SETS } from '../exact/evaluate.js';
+import { TooLargeError } from '../errors.js';
+import type { ExactResult } from '../exact/result.js';
+import { simulate } from '../sim/simulate.js';
+import { reportPlan } from '../design/scoring/sim-score.js';
+import type { ScoreMethod } from '../design/scoring/score.js';
+import { impatientClasses, demandNote } from './warnings.js';
 import { checkStability } from '../stability/check.js';
 import { certificateWithIds } from '../stability/certificate.js';
 import { supportedDigits } from '../output/format.js';
@@ -50,7 +56,17 @@ export interface EvaluateRecord extends RecordBase {
   readonly reference: Reference;
   readonly stable: boolean;
   /** How the figures were made. */
-  readonly method: 'exact';
+  readonly method: 'exact' | 'simulation';
+  /** Simulated: why, and how long (replications of `arrivals` measured arrivals, streams from `seed`). */
+  readonly simulation?: { readonly reason: string; readonly arrivals: number; readonly warmup: number; readonly replications: number; readonly seed: number; readonly abandonment: boolean };
+  /** Simulated: 95 % intervals (Student t across independent replications). */
+  readonly backlogCi95?: [number, number];
+  readonly backlogByClassCi95?: Record<string, [number, number]>;
+  readonly waitCi95?: [number, number];
+  readonly waitByClassCi95?: Record<string, [number, number]>;
+  readonly matchedAtOnceCi95?: [number, number];
+  /** Simulated with patience: the share of arrivals that abandon. */
+  readonly abandonShare?: { readonly total: number; readonly ci95: [number, number] | null; readonly byClass: Record<string, number | null> };
   readonly independentSets: number | null;
   /** Mean number of items waiting: in all, and per class. */
   readonly backlog: { readonly total: number; readonly byClass: Record<string, number | null> } | null;
@@ -71,6 +87,24 @@ export interface EvaluateRecord extends RecordBase {
 
 export interface EvaluateOptions {
   readonly maxSets?: number;
+  /** Default 'exact' (the library's historical behaviour); the CLI's default is 'auto'. */
+  readonly score?: ScoreMethod;
+  /** Seed of the simulation streams (default 1). */
+  readonly seed?: number;
+  /** Worker threads of the simulation (default 1); the figures do not depend on it. */
+  readonly jobs?: number;
+  /** Compiled worker override for the simulation (null: this thread). */
+  readonly workerUrl?: URL | null;
+}
+
+type Pair = [number, number];
+const pairOf = (c: readonly [number, number] | null): Pair | null => (c ? [c[0], c[1]] : null);
+function intervals(ids: readonly string[], list: ReadonlyArray<{ ci95: readonly [number, number] | null }>): Record<string, Pair> {
+  const out: Record<string, Pair> = {};
+  list.forEach((e, k) => {
+    if (e.ci95 && Number.isFinite(e.ci95[0]) && Number.isFinite(e.ci95[1])) out[ids[k]!] = [e.ci95[0], e.ci95[1]];
+  });
+  return out;
 }
 
 export async function evaluateUseCase(ctx: ScenarioContext, options: EvaluateOptions = {}): Promise<EvaluateRecord> {
@@ -95,7 +129,20 @@ export async function evaluateUseCase(ctx: ScenarioContext, options: EvaluateOpt
       repairs: instability.repairs,
     };
   }
-  const r = evaluateExact(model, { maxSets: options.maxSets ?? DEFAULT_MAX_SETS, timeUnit: ctx.scenario.timeUnit });
+  const method = options.score ?? 'exact';
+  let r: ExactResult | null = null;
+  let reason = 'asked for (--score simulation)';
+  if (method === 'exact' || (method === 'auto' && !ctx.patience)) {
+    try {
+      r = evaluateExact(model, { maxSets: options.maxSets ?? DEFAULT_MAX_SETS, timeUnit: ctx.scenario.timeUnit });
+    } catch (e) {
+      if (!(e instanceof TooLargeError) || method === 'exact') throw e;
+      reason = e.message.split(';')[0]!;
+    }
+  } else if (method === 'auto') {
+    reason = `patience in the file (${impatientClasses(ctx)} one): simulated with abandonment`;
+  }
+  if (!r) return simulatedEvaluation(ctx, options, base, stability, reason);
   const total = model.totalRate;
   let atOnce = 0;
   for (let k = 0; k < model.n; k++) atOnce += model.rates[k]! * r.immediateMatch[k]!;
@@ -134,6 +181,88 @@ export async function evaluateUseCase(ctx: ScenarioContext, options: EvaluateOpt
           pairsWithValue: withValue,
           pairsWithoutValue: model.m - withValue,
           patienceIgnored: ctx.patience,
+        }
+      : null,
+    bottleneck: b ? { set: idsOf(model, b.set), spareCapacity: b.slack, capacity: b.capacity } : null,
+    instability: null,
+    repairs: null,
+  };
+}
+
+/** The figures of a stable design by seeded simulation, with their 95 % intervals. */
+async function simulatedEvaluation(
+  ctx: ScenarioContext,
+  options: EvaluateOptions,
+  base: ReturnType<typeof recordBase<'evaluate'>> & { reference: Reference },
+  stability: ReturnType<typeof checkStability>,
+  reason: string,
+): Promise<EvaluateRecord> {
+  const model = ctx.model;
+  const values = edgeValues(model, ctx.values);
+  let valueSum = 0;
+  let withValue = 0;
+  const plan = reportPlan(options.seed ?? 1, model.n);
+  const patience = ctx.patience ? ctx.scenario.classes.map((c) => c.patience ?? Infinity) : undefined;
+  const s = await simulate(model, {
+    arrivals: plan.arrivals,
+    warmup: plan.warmup,
+    replications: plan.replications,
+    seed: plan.seed,
+    maxWaiting: plan.maxWaiting,
+    jobs: options.jobs ?? 1,
+    ...(patience ? { patience } : {}),
+    ...(options.workerUrl === undefined ? {} : { workerUrl: options.workerUrl }),
+  });
+  const ids = model.ids;
+  const half = model.totalRate / 2;
+  for (let e = 0; e < model.m; e++) {
+    valueSum += values.value[e]! * s.matchRates[e]!.mean;
+    withValue += values.given[e]!;
+  }
+  const b = stability.bottleneck;
+  const impatient = patience !== undefined;
+  const warnings = [demandNote(ctx)].filter((w): w is string => w !== null);
+  const backlogCi = pairOf(s.backlog.total.ci95);
+  const waitCi = pairOf(s.wait.total.ci95);
+  const atOnceCi = pairOf(s.immediateMatch.total.ci95);
+  return {
+    ...base,
+    warnings: [
+      `Simulated figures (${reason}): ${plan.replications} replications of ${plan.arrivals.toLocaleString('en-US')} arrivals, seed ${options.seed ?? 1}; each carries its 95 % interval.`,
+      ...warnings,
+    ],
+    method: 'simulation',
+    simulation: { reason, arrivals: plan.arrivals, warmup: plan.warmup, replications: plan.replications, seed: options.seed ?? 1, abandonment: impatient },
+    stable: true,
+    independentSets: null,
+    backlog: { total: s.backlog.total.mean, byClass: byClass(ids, s.backlog.byClass.map((e) => e.mean)) },
+    ...(backlogCi ? { backlogCi95: backlogCi } : {}),
+    backlogByClassCi95: intervals(ids, s.backlog.byClass),
+    // mean wait over all arrivals by Little's law from the backlog (abandoned items included while they wait)
+    wait: { mean: s.backlog.total.mean / model.totalRate, byClass: byClass(ids, s.backlog.byClass.map((e, k) => e.mean / model.rates[k]!)) },
+    ...(backlogCi ? { waitCi95: [backlogCi[0] / model.totalRate, backlogCi[1] / model.totalRate] as Pair } : waitCi ? { waitCi95: waitCi } : {}),
+    waitByClassCi95: intervals(ids, s.backlog.byClass.map((e, k) => ({ ci95: e.ci95 ? ([e.ci95[0] / model.rates[k]!, e.ci95[1] / model.rates[k]!] as const) : null }))),
+    matchedAtOnce: { total: s.immediateMatch.total.mean, byClass: byClass(ids, s.immediateMatch.byClass.map((e) => e.mean)) },
+    ...(atOnceCi ? { matchedAtOnceCi95: atOnceCi } : {}),
+    ...(impatient ? { abandonShare: { total: s.abandonShare.total.mean, ci95: pairOf(s.abandonShare.total.ci95), byClass: byClass(ids, s.abandonShare.byClass.map((e) => e.mean)) } } : {}),
+    emptyProbability: null,
+    matchRates: Array.from({ length: model.m }, (_, e) => ({
+      pair: pairIds(model, model.edgeA[e]!, model.edgeB[e]!),
+      rate: s.matchRates[e]!.mean,
+      share: s.matchRates[e]!.mean / half,
+      value: values.given[e] ? values.value[e]! : null,
+      valueRate: values.given[e] ? values.value[e]! * s.matchRates[e]!.mean : null,
+    })),
+    // from the simulated match rates (abandonment included): point estimates, like the backlog's mean
+    value: ctx.values.any
+      ? {
+          rate: valueSum,
+          waitingCost: ctx.values.hasWaitingCost ? ctx.values.waitingCost : null,
+          waitingCostRate: ctx.values.waitingCost * s.backlog.total.mean,
+          net: valueSum - ctx.values.waitingCost * s.backlog.total.mean,
+          pairsWithValue: withValue,
+          pairsWithoutValue: model.m - withValue,
+          patienceIgnored: false,
         }
       : null,
     bottleneck: b ? { set: idsOf(model, b.set), spareCapacity: b.slack, capacity: b.capacity } : null,

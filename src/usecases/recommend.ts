@@ -17,7 +17,7 @@ import { recordBase } from './context.js';
 import { changePairs, designFigures, verdictRecord, type DesignFigures, type VerdictRecord } from './designs.js';
 import { instabilityOf } from './instability.js';
 import { finite, pairIds, type InstabilityRecord, type RepairRecord, type PairIds, type RecordBase } from './records.js';
-import { exactWarnings, valueWarnings } from './warnings.js';
+import { exactWarnings, scoringWarnings, valueWarnings } from './warnings.js';
 import { checkDesignSize } from './limits.js';
 import { LP_DIGITS, num, roundFigure } from '../output/format.js';
 
@@ -72,6 +72,8 @@ export interface RecommendRecord extends RecordBase, DecisionPart {
   readonly baselines: BaselineEntry[];
   readonly search: {
     readonly evaluations: number;
+    /** Of the designs scored, those scored by simulation (0 or absent: all exact). */
+    readonly simulated?: number;
     readonly scored: number;
     readonly toggles: number;
     /** 2^toggles (null when beyond 2^53). */
@@ -111,7 +113,8 @@ function mergedFront(ctx: ScenarioContext, pareto: readonly DesignDetails[], ext
 /** Recommendation → the decision: recommended design, verdicts, the front it sits on. */
 export function decisionOf(ctx: ScenarioContext, rec: Recommendation, input: RecommendInput): { decision: Decision | null; pareto: DesignDetails[]; recommended: DesignDetails } {
   const pick = rec.pareto.reduce((best, d) => (d.objective < best.objective ? d : best));
-  if (rec.partial) return { decision: null, pareto: rec.pareto, recommended: pick };
+  // single-change verdicts are exact; a simulated pick gets none (the record says so)
+  if (rec.partial || pick.method === 'simulation') return { decision: null, pareto: rec.pareto, recommended: pick };
   const decision = decide(ctx.problem, input.objective, pick.design, input.maxSets === undefined ? {} : { maxSets: input.maxSets });
   const same = decision.improvements === 0;
   const recommended = same ? pick : designDetails(ctx.problem, input.objective, decision.design, input.maxSets);
@@ -141,6 +144,11 @@ export function decisionPart(ctx: ScenarioContext, input: RecommendInput, parts:
 export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInput): Promise<RecommendRecord> {
   const p = ctx.problem;
   if (needsMatchRates(input.objective) && !p.hasValues) throw new UsageError(NO_VALUES_MESSAGE);
+  if (needsMatchRates(input.objective) && input.score === 'simulation') {
+    throw new UsageError('--objective net-value needs exact match rates, which --score simulation does not give; use --score exact (or auto)');
+  }
+  // the net value is an exact objective: auto scores it exactly (and says, beside the figures, that they ignore patience)
+  if (needsMatchRates(input.objective) && input.score === 'auto') input = { ...input, score: 'exact' };
   const sign = objectiveSign(input.objective);
   checkDesignSize(p.n, p.toggles.length, 'recommend');
   const todayStability = checkStability(ctx.today);
@@ -159,14 +167,15 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
     throw e;
   }
   const parts = decisionOf(ctx, rec, input);
-  const todayDetails = designDetails(p, input.objective, Uint8Array.from(p.today), input.maxSets);
+  const todayDetails = rec.today ?? designDetails(p, input.objective, Uint8Array.from(p.today), input.maxSets);
   const decision = decisionPart(ctx, input, parts, todayDetails);
   const recommendedKey = parts.recommended.key;
   const front = parts.pareto;
   const pair = (j: number): PairIds => pairIds(p, p.toggles[j]!.a, p.toggles[j]!.b);
   const milpEntry = (m: Recommendation['milp']['cheapest']): MilpEntry => ({ cost: m.cost, ...changePairs(p, m.design), flowMargin: Number.isFinite(m.verifiedMinFlow) ? roundFigure(m.verifiedMinFlow, LP_DIGITS) : null, proven: m.proven });
+  const simulatedFront = front.some((d) => d.method === 'simulation');
   const warnings = [
-    ...exactWarnings(ctx, 'The figures of every design'),
+    ...(input.score === undefined || input.score === 'exact' ? exactWarnings(ctx, 'The figures of every design') : scoringWarnings(ctx, input.score, rec, simulatedFront)),
     ...(p.hasValues ? valueWarnings(ctx) : []),
     rec.partial ? 'interrupted: the Pareto set is what the search had found so far; designs not yet checked for harmful paid compatibilities may be in it, and no verdicts were computed' : null,
   ];
@@ -189,6 +198,7 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
     })),
     search: {
       evaluations: rec.evaluations,
+      ...(rec.simulated ? { simulated: rec.simulated } : {}),
       scored: rec.scored,
       toggles: rec.toggles,
       designSpace: rec.toggles <= 53 ? rec.designSpace : null,

@@ -40,3 +40,32 @@ export function valueWarnings(ctx: ScenarioContext): string[] {
     `The value rate, waiting cost and net value ignore patience: ${who} a patience in the file, so in reality some items give up unmatched (their pairs earn nothing for them) and fewer wait; \`edgewise simulate\` gives figures with abandonment.`,
   ];
 }
+
+/**
+ * The cautions of a command that scored designs with `--score auto|simulation`: which figures are
+ * simulated and why, that patience is modelled (simulation with abandonment) or, for exact figures,
+ * ignored, and what a simulated recommendation does not have.
+ */
+export function scoringWarnings(
+  ctx: ScenarioContext,
+  method: 'auto' | 'simulation',
+  rec: { readonly simulated?: number; readonly scored: number },
+  simulatedFront: boolean,
+): string[] {
+  const who = impatientClasses(ctx);
+  const out: Array<string | null> = [];
+  if (simulatedFront || (rec.simulated ?? 0) > 0) {
+    out.push(
+      who !== null
+        ? `Scored by simulation with abandonment (${who} a patience in the file): backlogs count the items still waiting, after those who gave up; each figure carries its 95 % interval.`
+        : method === 'simulation'
+          ? 'Scored by simulation (--score simulation): each figure carries its 95 % interval; two designs are called different only when their paired difference is significant.'
+          : `Scored by simulation where the exact recursion is not feasible (${rec.simulated ?? 0} of ${rec.scored} designs in the search): those figures carry their 95 % interval.`,
+    );
+    if (simulatedFront) out.push('No single-change verdicts: they need exact figures, and the recommended design is scored by simulation.');
+  } else {
+    out.push(patienceWarning(ctx, 'The figures of every design'));
+  }
+  out.push(demandNote(ctx));
+  return out.filter((w): w is string => w !== null);
+}

@@ -117,8 +117,8 @@ describe('evaluate (tables and errors)', () => {
     expect(r.out.replace(/\n(?!\n)/g, ' ')).toMatch(/Stable · [0-9.]+ items wait on average .* 7 independent sets/);
   });
 
-  it('refuses with exit 4 when the independent sets exceed --max-sets', async () => {
-    const r = await run({ file: scenarioFile('hub3.json', hub), maxSets: 3 });
+  it('refuses with exit 4 when the independent sets exceed --max-sets (--score exact)', async () => {
+    const r = await run({ file: scenarioFile('hub3.json', hub), maxSets: 3, score: 'exact' });
     expect(r.code).toBe(4);
     expect(r.err).toMatch(/independent sets/);
     expect(r.err).toMatch(/simulate/);

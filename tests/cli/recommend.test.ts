@@ -95,15 +95,15 @@ describe('edgewise recommend', () => {
     expect(JSON.parse(loose.out).pareto.map((p: { cost: number }) => p.cost)).toEqual([0]);
   });
 
-  it('--exhaustive gives the same front; --csv one row per design and baseline; a table for people', async () => {
-    const a = JSON.parse((await run({ file: 'shift-swap-marketplace.json', json: true })).out);
-    const b = JSON.parse((await run({ file: 'shift-swap-marketplace.json', json: true, exhaustive: true })).out);
+  it('--score exact: --exhaustive gives the same front; --csv one row per design and baseline; a table for people', async () => {
+    const a = JSON.parse((await run({ file: 'shift-swap-marketplace.json', score: 'exact', json: true })).out);
+    const b = JSON.parse((await run({ file: 'shift-swap-marketplace.json', score: 'exact', json: true, exhaustive: true })).out);
     expect(b.search.exhaustive).toBe(true);
     expect(b.pareto.map((p: { cost: number; backlog: number }) => [p.cost, p.backlog])).toEqual(a.pareto.map((p: { cost: number; backlog: number }) => [p.cost, p.backlog]));
-    const csv = (await run({ file: 'shift-swap-marketplace.json', csv: true })).out.trim().split('\n');
+    const csv = (await run({ file: 'shift-swap-marketplace.json', score: 'exact', csv: true })).out.trim().split('\n');
     expect(csv[0]).toBe('kind,name,recommended,cost,method,backlog,objective,maxWait,spareCapacity,frontAtCost,gap,feasible,added,removed');
     expect(csv).toHaveLength(1 + a.pareto.length + 4);
-    const table = (await run({ file: 'shift-swap-marketplace.json' })).out;
+    const table = (await run({ file: 'shift-swap-marketplace.json', score: 'exact' })).out;
     expect(table).toMatch(/Pareto set/);
     expect(table).toMatch(/Rules of thumb beside the Pareto set/);
     expect(table).toMatch(/Every single change, measured against the recommended design/);

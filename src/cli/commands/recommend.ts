@@ -8,7 +8,7 @@ import { savedDesign } from '../../usecases/saved-design.js';
 import { execute, type OutputOptions } from '../command.js';
 import type { CommandIO } from '../io.js';
 import { loadContext, type ContextFlags } from '../load.js';
-import { checkMaxSets, checkWaitUnit, wholeNumber } from '../options.js';
+import { checkMaxSets, checkWaitUnit, scoreMethod, wholeNumber } from '../options.js';
 import { progressBar } from '../progress.js';
 import { prepareOutput, writeFileAtomic } from '../write.js';
 
@@ -19,6 +19,7 @@ export interface RecommendCommandOptions extends ContextFlags, OutputOptions {
   readonly seed?: number | string;
   readonly maxSets?: number;
   readonly waitUnit?: string;
+  readonly score?: string;
   /** Write the chosen design (the recommended one, or Pareto entry --pick K) to this file. */
   readonly save?: string;
   readonly pick?: number | string;
@@ -26,7 +27,7 @@ export interface RecommendCommandOptions extends ContextFlags, OutputOptions {
 
 /** `edgewise recommend FILE`: the Pareto set within the budget, the recommended design and every verdict against it. */
 export function recommendCommand(opts: RecommendCommandOptions, io: CommandIO): Promise<number> {
-  const bar = progressBar(io, 'recommend [{bar}] {phase} · {evaluations} exact evaluations');
+  const bar = progressBar(io, 'recommend [{bar}] {phase} · {evaluations} evaluations');
   let savePath: string | undefined;
   return execute(
     {
@@ -38,10 +39,13 @@ export function recommendCommand(opts: RecommendCommandOptions, io: CommandIO): 
         if (opts.pick !== undefined && opts.save === undefined) throw new UsageError('--pick chooses the Pareto entry --save writes; give --save FILE too');
         const pick = opts.pick === undefined ? undefined : wholeNumber(opts.pick, '--pick', 1, 1);
         if (opts.save !== undefined) savePath = prepareOutput(opts.save, io.cwd, [opts.file, ...(opts.design ? [opts.design] : [])], '--save');
+        const score = scoreMethod(opts.score);
         const ctx = loadContext(opts, io.cwd);
         let total = 1;
         const input = {
           objective,
+          score,
+          ...(score !== 'exact' && ctx.patience ? { patience: ctx.scenario.classes.map((c) => c.patience ?? 0) } : {}),
           jobs: wholeNumber(opts.jobs, '--jobs', 1, 1, 256),
           exhaustive: opts.exhaustive === true,
           seed: wholeNumber(opts.seed, '--seed', 0, 1),

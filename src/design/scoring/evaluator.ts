@@ -14,7 +14,8 @@ import { admissibleBeforeEvaluation, changeCount, designCost, designKey } from '
 import { needsMatchRates, needsPerClass, objectiveValue, type ObjectiveName } from '../space/objective.js';
 import type { Scorer } from './scorer.js';
 import { reuses, type ReuseMode } from './reuse.js';
-import type { Score, ScoreSpec } from './score.js';
+import type { Score, ScoreMethod, ScoreSpec } from './score.js';
+import type { Interval, SimPlan } from './sim-score.js';
 import type { ScoreTask } from './score-task.js';
 
 export interface DesignRecord {
@@ -43,6 +44,23 @@ export interface DesignRecord {
   readonly feasible: boolean;
   /** Independent sets of the design (0 when refused before the exact recursion). */
   readonly independentSets: number;
+  /** How the figures were made (absent: exact). */
+  readonly method?: 'exact' | 'simulation';
+  /** Simulated: 95 % interval of the total backlog. */
+  readonly backlogCi95?: Interval | null;
+  /** Simulated: total backlog per replication (common random numbers across designs). */
+  readonly perReplication?: Float64Array;
+  /** Simulated with patience: share of arrivals that abandon. */
+  readonly abandonShareTotal?: number;
+}
+
+/** How a search scores its designs (absent: exact only). */
+export interface ScoringChoice {
+  readonly method: ScoreMethod;
+  /** The search's simulation plan. */
+  readonly sim: SimPlan;
+  /** Mean patience per class (0 = patient). */
+  readonly patience?: readonly number[];
 }
 
 /** A scored design that a design to score differs from by exactly one toggle. */
@@ -59,7 +77,7 @@ export interface EvaluatorProgress {
 }
 
 /** The scoring spec of a problem. */
-export function scoreSpecOf(problem: DesignProblem, objective: ObjectiveName, maxSets?: number): ScoreSpec {
+export function scoreSpecOf(problem: DesignProblem, objective: ObjectiveName, maxSets?: number, scoring?: ScoringChoice): ScoreSpec {
   const hasTargets = problem.waitTarget.some((w) => Number.isFinite(w));
   return {
     ids: problem.ids,
@@ -71,6 +89,7 @@ export function scoreSpecOf(problem: DesignProblem, objective: ObjectiveName, ma
     fixedValue: Array.from(problem.fixedValue),
     toggleValue: problem.toggles.map((t) => t.value),
     ...(maxSets === undefined ? {} : { maxSets }),
+    ...(scoring ? { method: scoring.method, sim: scoring.sim, ...(scoring.patience ? { patience: scoring.patience } : {}) } : {}),
   };
 }
 
@@ -148,6 +167,10 @@ export class DesignEvaluator {
       withinLimits: within,
       feasible: within && s.stable && meets,
       independentSets: s.independentSets,
+      ...(s.method ? { method: s.method } : {}),
+      ...(s.backlogCi95 !== undefined ? { backlogCi95: s.backlogCi95 } : {}),
+      ...(s.perReplication ? { perReplication: s.perReplication } : {}),
+      ...(s.abandonShareTotal !== undefined ? { abandonShareTotal: s.abandonShareTotal } : {}),
     };
   }
 

@@ -7,11 +7,21 @@
  * otherwise the exact recursion itself refuses every independent set A with λ(N(A)) <= λ(A ∖ S)
  * (UnstableDesignError), which is the stability condition.
  */
-import { UnstableDesignError } from '../../errors.js';
+import { TooLargeError, UnstableDesignError } from '../../errors.js';
 import { compileGraph, type CompiledModel } from '../../model/compile.js';
 import { bipartition, components } from '../../model/components.js';
 import { evaluateBacklog, evaluateExact } from '../../exact/evaluate.js';
 import { valueRate as sumValue } from '../../model/values.js';
+import { checkStability } from '../../stability/check.js';
+import { simulateDesign, type Interval, type SimPlan } from './sim-score.js';
+
+/**
+ * How designs are scored: the exact recursion, seeded simulation, or `auto` — exact where it is
+ * feasible (the independent sets under the guard, every connected group of at most 64 classes) and
+ * the file has no patience, simulation otherwise, decided per design.
+ */
+export type ScoreMethod = 'exact' | 'simulation' | 'auto';
+export const SCORE_METHODS: readonly ScoreMethod[] = ['exact', 'simulation', 'auto'];
 
 /** Everything a scorer needs, as plain data (it is sent to worker threads). */
 export interface ScoreSpec {
@@ -32,6 +42,12 @@ export interface ScoreSpec {
   readonly fixedValue?: readonly number[];
   readonly toggleValue?: readonly number[];
   readonly maxSets?: number;
+  /** Default 'exact' (today's behaviour: TooLargeError past the guard). */
+  readonly method?: ScoreMethod;
+  /** The simulation plan (needed unless method is 'exact'). */
+  readonly sim?: SimPlan;
+  /** Mean patience per class (model order, 0 = patient): simulation with abandonment. */
+  readonly patience?: readonly number[];
 }
 
 export interface Score {
@@ -46,6 +62,18 @@ export interface Score {
   readonly independentSets: number;
   /** True when the exact evaluator ran (it counts as one evaluation). */
   readonly evaluated: boolean;
+  /** How the figures were made (absent: exact). */
+  readonly method?: 'exact' | 'simulation';
+  /** Simulated: 95 % interval of the total backlog. */
+  readonly backlogCi95?: Interval | null;
+  /** Simulated: total backlog of each replication (paired comparisons under common random numbers). */
+  readonly perReplication?: Float64Array;
+  /** Simulated: share of arrivals that abandon, per class and over all. */
+  readonly abandonShare?: Float64Array;
+  readonly abandonShareTotal?: number;
+  /** Simulated, per class: ends of the 95 % interval of the backlog (when per-class figures are asked). */
+  readonly backlogLo?: Float64Array;
+  readonly backlogHi?: Float64Array;
 }
 
 /** The compiled graph of a design: the fixed pairs, then the toggles that are on. */
@@ -78,9 +106,61 @@ export function unstableAtSight(model: CompiledModel): boolean {
   return false;
 }
 
+/** True when the spec scores by simulation whatever the design. */
+export function simulatesAlways(spec: ScoreSpec): boolean {
+  return spec.method === 'simulation' || (spec.method === 'auto' && hasPatience(spec.patience));
+}
+
+export function hasPatience(patience: ArrayLike<number> | undefined): boolean {
+  if (!patience) return false;
+  for (let k = 0; k < patience.length; k++) if (patience[k]! > 0 && Number.isFinite(patience[k]!)) return true;
+  return false;
+}
+
+/**
+ * Simulated score of a design: the stability LP first (an unstable design is never simulated), then
+ * the plan's replications. A design whose queues outgrow the plan's cap counts as unusable (unstable).
+ */
+export function simulatedScore(spec: ScoreSpec, model: CompiledModel): Score {
+  if (!checkStability(model).stable) return UNSTABLE_UNEVALUATED;
+  const plan = spec.sim;
+  if (!plan) throw new RangeError('a simulated score needs a simulation plan');
+  try {
+    const f = simulateDesign(model, plan, spec.patience);
+    return {
+      stable: true,
+      backlogTotal: f.backlogTotal,
+      backlog: spec.perClass ? f.backlog : null,
+      // a value rate needs exact match rates: a simulated score has none
+      valueRate: NaN,
+      independentSets: 0,
+      evaluated: true,
+      method: 'simulation',
+      backlogCi95: f.backlogCi95,
+      perReplication: f.perReplication,
+      abandonShare: f.abandonShare,
+      abandonShareTotal: f.abandonShareTotal,
+      ...(spec.perClass ? { backlogLo: f.backlogLo, backlogHi: f.backlogHi } : {}),
+    };
+  } catch (e) {
+    if (e instanceof TooLargeError) return UNSTABLE_EVALUATED;
+    throw e;
+  }
+}
+
 export function scoreDesign(spec: ScoreSpec, design: ArrayLike<number>): Score {
   const model = specModel(spec, design);
   if (unstableAtSight(model)) return UNSTABLE_UNEVALUATED;
+  if (simulatesAlways(spec)) return simulatedScore(spec, model);
+  try {
+    return exactScore(spec, model, design);
+  } catch (e) {
+    if (e instanceof TooLargeError && spec.method === 'auto') return simulatedScore(spec, model);
+    throw e;
+  }
+}
+
+function exactScore(spec: ScoreSpec, model: CompiledModel, design: ArrayLike<number>): Score {
   const options = spec.maxSets === undefined ? {} : { maxSets: spec.maxSets };
   try {
     if (spec.perClass || spec.matchValue === true) {

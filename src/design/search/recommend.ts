@@ -25,7 +25,9 @@ import { valueRate as sumValue } from '../../model/values.js';
 import { checkStability } from '../../stability/check.js';
 import { seededRandom } from '../../random.js';
 import { baselines as buildBaselines, type BaselineName } from './baselines.js';
-import { DesignEvaluator, scoreSpecOf, type DesignRecord } from '../scoring/evaluator.js';
+import { DesignEvaluator, scoreSpecOf, type DesignRecord, type ScoringChoice } from '../scoring/evaluator.js';
+import { simulatesAlways, type Score, type ScoreMethod } from '../scoring/score.js';
+import { pairedDifference, reportPlan, searchPlan, type Interval, type PairedDifference } from '../scoring/sim-score.js';
 import { exhaustiveSearch, MAX_EXHAUSTIVE_TOGGLES } from './exhaustive.js';
 import { paretoLocalSearch } from './local-search.js';
 import { budgetLadder, cheapestStableDesign, maxMinFlowDesign, type MilpDesign } from './milp.js';
@@ -63,6 +65,14 @@ export interface RecommendOptions {
   readonly seed?: number;
   /** Memory guard of the exact evaluator (independent sets per design). */
   readonly maxSets?: number;
+  /**
+   * How designs are scored (default 'exact', today's behaviour): 'simulation' for every design, or
+   * 'auto': exact where feasible and no patience, simulation otherwise (per design). The simulation
+   * streams come from `seed` alone (common random numbers across designs).
+   */
+  readonly score?: ScoreMethod;
+  /** Mean patience per class (0 = patient); with 'auto' or 'simulation' the figures include abandonment. */
+  readonly patience?: readonly number[];
   /** Budget levels of the MILP ladder (default: none for the search, 5 with `exhaustive`; 0: none). */
   readonly ladderLevels?: number;
   /** Wall-clock limit of one MILP solve, seconds (default 30). */
@@ -116,6 +126,19 @@ export interface DesignDetails {
   /** Smallest λ(N(I)) − λ(I) over independent sets I (the bottleneck), when stable. */
   readonly bottleneckSlack: number;
   readonly independentSets: number;
+  /** How the figures were made (absent: exact). */
+  readonly method?: 'exact' | 'simulation';
+  /** Simulated: 95 % interval of the total backlog, and per class of the waits. */
+  readonly backlogCi95?: Interval | null;
+  readonly waitLo?: Float64Array;
+  readonly waitHi?: Float64Array;
+  /** Simulated: total backlog per replication (common random numbers). */
+  readonly perReplication?: Float64Array;
+  /** Simulated with patience: share of arrivals that abandon, per class and over all. */
+  readonly abandonShare?: Float64Array;
+  readonly abandonShareTotal?: number;
+  /** On the front, simulated: backlog of this design minus that of the next cheaper one (paired, same streams). */
+  readonly vsCheaper?: PairedDifference;
 }
 
 export interface BaselineResult extends DesignDetails {
@@ -155,6 +178,10 @@ export interface Recommendation {
   readonly scoring: 'workers' | 'in-thread';
   /** True when the search was stopped before it finished. */
   readonly partial: boolean;
+  /** Today's design with the same scoring as the front. */
+  readonly today?: DesignDetails;
+  /** Designs scored by simulation during the search. */
+  readonly simulated?: number;
 }
 
 /** Why `--objective net-value` is refused on a file without values. */
@@ -205,6 +232,60 @@ export function designDetails(problem: DesignProblem, objective: ObjectiveName, 
 }
 
 /**
+ * Details of a design from a simulated score (the stability LP gives the margins; the figures and
+ * intervals come from the simulation). A score that is not simulated gives the exact details.
+ */
+export function detailsOfScore(problem: DesignProblem, objective: ObjectiveName, design: Uint8Array, s: Score, maxSets?: number): DesignDetails {
+  if (s.method !== 'simulation' || !s.stable) {
+    if (!s.stable && s.method === 'simulation') {
+      const { added, removed } = designChanges(problem, design);
+      return { design, key: designKey(design), cost: designCost(problem, design), added, removed, stable: false, objective: NaN, backlogTotal: NaN, backlog: null, valueRate: NaN, wait: null, maxWait: NaN, minEdgeFlow: NaN, bottleneckSlack: NaN, independentSets: 0, method: 'simulation' };
+    }
+    return designDetails(problem, objective, design, maxSets);
+  }
+  const model = compileGraph(problem.ids, problem.rates, designPairs(problem, design));
+  const { added, removed } = designChanges(problem, design);
+  const report = checkStability(model);
+  const backlog = s.backlog!;
+  const wait = Float64Array.from(backlog, (b, k) => b / problem.rates[k]!);
+  let minEdgeFlow = Infinity;
+  for (const c of report.components) minEdgeFlow = Math.min(minEdgeFlow, c.minEdgeFlow ?? Infinity);
+  let maxWait = 0;
+  for (let k = 0; k < problem.n; k++) maxWait = Math.max(maxWait, wait[k]!);
+  return {
+    design,
+    key: designKey(design),
+    cost: designCost(problem, design),
+    added,
+    removed,
+    stable: true,
+    objective: objectiveValue(objective, s.backlogTotal, backlog, problem.rates, problem.weight),
+    valueRate: NaN,
+    backlogTotal: s.backlogTotal,
+    backlog,
+    wait,
+    maxWait,
+    minEdgeFlow,
+    bottleneckSlack: report.bottleneck?.slack ?? NaN,
+    independentSets: 0,
+    method: 'simulation',
+    backlogCi95: s.backlogCi95 ?? null,
+    ...(s.backlogLo && s.backlogHi ? { waitLo: Float64Array.from(s.backlogLo, (b, k) => b / problem.rates[k]!), waitHi: Float64Array.from(s.backlogHi, (b, k) => b / problem.rates[k]!) } : {}),
+    ...(s.perReplication ? { perReplication: s.perReplication } : {}),
+    ...(s.abandonShare ? { abandonShare: s.abandonShare, abandonShareTotal: s.abandonShareTotal ?? 0 } : {}),
+  };
+}
+
+/** The paired comparisons of a front (cheapest first) under common random numbers. */
+function withComparisons(front: DesignDetails[]): DesignDetails[] {
+  return front.map((d, i) => {
+    const prev = front[i - 1];
+    if (!prev || !d.perReplication || !prev.perReplication) return d;
+    return { ...d, vsCheaper: pairedDifference(d.perReplication, prev.perReplication) };
+  });
+}
+
+/**
  * Today's design as a MILP-like answer when it is stable and within maxCompatibilities (the MILP
  * only sees designs whose smallest edge flow clears its floor; today's design may be stable with a
  * thinner margin).
@@ -237,7 +318,15 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       `--exhaustive enumerates 2^${problem.toggles.length} designs; it is limited to ${MAX_EXHAUSTIVE_TOGGLES} removable compatibilities and candidates together`,
     );
   }
-  const spec = scoreSpecOf(problem, objective, options.maxSets);
+  const method = options.score ?? 'exact';
+  const seed = options.seed ?? 1;
+  const choice = (plan: ScoringChoice['sim']): ScoringChoice | undefined =>
+    method === 'exact' ? undefined : { method, sim: plan, ...(options.patience ? { patience: options.patience } : {}) };
+  const spec = scoreSpecOf(problem, objective, options.maxSets, choice(searchPlan(seed, problem.n)));
+  // the designs returned are scored again with the longer plan (its own stream, the same for all)
+  const finalChoice = choice(reportPlan(seed, problem.n));
+  const simulatesAll = simulatesAlways(spec);
+  const finalSpec = finalChoice ? { ...scoreSpecOf(problem, objective, options.maxSets, finalChoice), perClass: true } : undefined;
   const url = options.workerUrl === null ? undefined : (options.workerUrl ?? workerScriptUrl());
   const scorer = createScorer(spec, options.jobs ?? 1, url, options.signal);
   let phase: RecommendProgress['phase'] = 'milp';
@@ -285,9 +374,11 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
         phase = 'search';
         const r = await paretoLocalSearch(evaluator, seeds, {
           random: seededRandom(options.seed ?? 1),
-          depth: options.depth ?? (objective === 'max-wait' ? 4 : 2),
-          ...(options.kicks === undefined ? {} : { kicks: options.kicks }),
-          ...(options.swapLayers === undefined ? {} : { swapLayers: options.swapLayers }),
+          // a simulated search expands the first layer only, without swaps, and kicks less: each
+          // simulated design costs about as much as thousands of small exact ones
+          depth: options.depth ?? (method === 'simulation' || simulatesAll ? 1 : objective === 'max-wait' ? 4 : 2),
+          ...(options.kicks === undefined ? (method === 'simulation' || simulatesAll ? { kicks: Math.min(problem.toggles.length, 10) } : {}) : { kicks: options.kicks }),
+          ...(options.swapLayers === undefined ? (method === 'simulation' || simulatesAll ? { swapLayers: 0 } : {}) : { swapLayers: options.swapLayers }),
         });
         ({ front, harmful } = r);
         partial = r.stopped;
@@ -308,7 +399,27 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
     }
 
     phase = 'details';
-    const pareto = front.map((r) => designDetails(problem, objective, r.design, options.maxSets));
+    let simulated = 0;
+    for (const r of evaluator.records()) if (r.method === 'simulation') simulated++;
+    let details: (design: Uint8Array) => DesignDetails = (design) => designDetails(problem, objective, design, options.maxSets);
+    if (finalSpec) {
+      // one batch on the pool: the front, the baselines and today's design, in input order
+      const batch = [...front.map((r) => r.design), ...base.map((b) => b.design), Uint8Array.from(problem.today)];
+      const rescorer = partial ? inThreadScorer(finalSpec) : createScorer(finalSpec, options.jobs ?? 1, url);
+      let scores: Score[];
+      try {
+        scores = await rescorer.score(batch);
+      } finally {
+        await rescorer.close();
+      }
+      const byKey = new Map(batch.map((d, i) => [designKey(d), scores[i]!] as const));
+      details = (design) => detailsOfScore(problem, objective, design, byKey.get(designKey(design))!, options.maxSets);
+    }
+    const rescored = front.map((r) => details(r.design));
+    // the front of the re-scored figures (noise in the search's figures may have let a dominated design in)
+    const pareto = withComparisons(
+      finalSpec ? paretoFront(rescored.filter((d) => d.stable).map((d) => ({ d, cost: d.cost, objective: d.objective, changes: d.added.length + d.removed.length, key: d.key }))).map((x) => x.d) : rescored,
+    );
     // Baselines: scored (with the neighbours their penalty needs) outside the search's count; an
     // interrupted run scores them in this thread, without the workers it has stopped.
     const after = partial ? new DesignEvaluator(problem, objective, inThreadScorer(spec), undefined, 'never') : evaluator;
@@ -317,14 +428,14 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
     if (!partial) await after.evaluate(neighbours.designs, neighbours.origins);
     const results: BaselineResult[] = base.map((b, i) => {
       const rec = baseRecords[i]!;
-      const details = designDetails(problem, objective, b.design, options.maxSets);
+      const detailsB = details(b.design);
       const verdict = rec.stable ? penaltyVerdict(problem, b.design, rec.objective, (key) => after.get(key)) : { known: true, harmful: [] };
       const inBudget = withinBudget(problem, b.design);
       const inLimits = degreesAllowed(problem, b.design);
-      const feasible = details.stable && inBudget && inLimits && rec.meetsTargets;
-      const frontValue = frontValueAt(pareto, details.cost);
+      const feasible = detailsB.stable && inBudget && inLimits && rec.meetsTargets;
+      const frontValue = frontValueAt(pareto, detailsB.cost);
       return {
-        ...details,
+        ...detailsB,
         name: b.name,
         note: b.note,
         withinBudget: inBudget,
@@ -333,7 +444,7 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
         harmful: verdict.harmful,
         feasible,
         frontValue,
-        gap: feasible && Number.isFinite(frontValue) ? details.objective - frontValue : NaN,
+        gap: feasible && Number.isFinite(frontValue) ? detailsB.objective - frontValue : NaN,
       };
     });
     return {
@@ -350,6 +461,8 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       harmfulRefused: harmful.size,
       scoring: scorer.mode,
       partial,
+      today: details(Uint8Array.from(problem.today)),
+      simulated,
     };
   } finally {
     await scorer.close();

@@ -1,5 +1,5 @@
 import type { EvaluateRecord } from '../../usecases/evaluate.js';
-import { count, num, pairText, pct, perUnit, rate, setText, wait, waitScale, type WaitScale } from '../format.js';
+import { count, estimate, num, pairText, pct, perUnit, rate, setText, wait, waitScale, type WaitScale } from '../format.js';
 import { instabilityBlocks, referenceWords } from './common.js';
 import { para, tableBlock, title, type Block } from './doc.js';
 
@@ -26,7 +26,8 @@ function partners(r: EvaluateRecord, id: string): string {
 
 /** `evaluate` for people. */
 export function evaluateText(r: EvaluateRecord, o: EvaluateTextOptions): Block[] {
-  const blocks: Block[] = [title(`${r.scenario} — exact FCFM steady state of ${referenceWords(r.reference)}`)];
+  const sim = r.method === 'simulation';
+  const blocks: Block[] = [title(`${r.scenario} — ${sim ? 'simulated' : 'exact'} FCFM steady state of ${referenceWords(r.reference)}`)];
   if (!r.stable) return [...blocks, ...instabilityBlocks(r.instability!, r.timeUnit, o.costUnit)];
   const ids = r.classes.map((c) => c.id);
   const waits = ids.map((id) => r.wait!.byClass[id] ?? NaN);
@@ -34,6 +35,19 @@ export function evaluateText(r: EvaluateRecord, o: EvaluateTextOptions): Block[]
   const hasLabels = r.classes.some((c) => c.label !== null);
   const u = perUnit(r.timeUnit);
   const total = r.classes.reduce((a, c) => a + c.rate, 0);
+  // simulated figures: "mean ± half-width of the 95 % interval"
+  const backlogText = (id: string | null): string => {
+    const v = id === null ? r.backlog!.total : (r.backlog!.byClass[id] ?? NaN);
+    const c = id === null ? r.backlogCi95 : r.backlogByClassCi95?.[id];
+    return sim && c ? estimate(v, c[0], c[1]) : num(v);
+  };
+  const waitText = (id: string | null): string => {
+    const v = id === null ? r.wait!.mean : (r.wait!.byClass[id] ?? NaN);
+    const c = id === null ? r.waitCi95 : r.waitByClassCi95?.[id];
+    if (!sim || !c) return wait(v, scale);
+    return `${wait(v, scale)} ± ${num(((c[1] - c[0]) / 2) * scale.factor, 2)}`;
+  };
+  const ab = r.abandonShare;
   blocks.push(
     tableBlock({
       columns: [
@@ -43,6 +57,7 @@ export function evaluateText(r: EvaluateRecord, o: EvaluateTextOptions): Block[]
         { header: 'mean backlog', align: 'right' as const },
         { header: 'mean wait', align: 'right' as const },
         { header: 'matched at once', align: 'right' as const },
+        ...(ab ? [{ header: 'abandon', align: 'right' as const }] : []),
         { header: 'matched with (share of its matches)', wrap: true, secondary: true },
       ],
       rows: [
@@ -50,17 +65,30 @@ export function evaluateText(r: EvaluateRecord, o: EvaluateTextOptions): Block[]
           c.id,
           ...(hasLabels ? [c.label ?? ''] : []),
           num(c.rate),
-          num(r.backlog!.byClass[c.id] ?? NaN),
-          wait(r.wait!.byClass[c.id] ?? NaN, scale),
+          backlogText(c.id),
+          waitText(c.id),
           pct(r.matchedAtOnce!.byClass[c.id] ?? NaN),
+          ...(ab ? [pct(ab.byClass[c.id] ?? NaN)] : []),
           partners(r, c.id),
         ]),
-        ['all classes', ...(hasLabels ? [''] : []), num(total), num(r.backlog!.total), wait(r.wait!.mean, scale), pct(r.matchedAtOnce!.total), ''],
+        ['all classes', ...(hasLabels ? [''] : []), num(total), backlogText(null), waitText(null), pct(r.matchedAtOnce!.total), ...(ab ? [pct(ab.total)] : []), ''],
       ],
       ruleBefore: [r.classes.length],
     }),
   );
   const b = r.bottleneck;
+  if (sim) {
+    const c = r.backlogCi95;
+    const m = r.simulation!;
+    blocks.push(
+      para(
+        `Stable · ${num(r.backlog!.total)} items wait on average, simulated (95 % interval ${c ? `${num(c[0])}–${num(c[1])}` : 'not available'})` +
+          (b ? ` · bottleneck ${setText(b.set)} with ${rate(b.spareCapacity, r.timeUnit)} of spare capacity` : '') +
+          ` · ${m.replications} replications of ${count(m.arrivals)} arrivals, seed ${m.seed}${m.abandonment ? ', with abandonment' : ''} · ± : half-width of the 95 % interval`,
+      ),
+    );
+    return blocks;
+  }
   blocks.push(
     para(
       `Stable · ${num(r.backlog!.total)} items wait on average · the system is empty ${pct(r.emptyProbability!)} of the time` +

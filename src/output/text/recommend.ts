@@ -1,6 +1,6 @@
 import type { DesignFigures, VerdictRecord } from '../../usecases/designs.js';
 import type { DecisionPart, RecommendRecord } from '../../usecases/recommend.js';
-import { count, money, num, pairText, perUnit, pct, signed, unitName, wait, waitScale, type WaitScale } from '../format.js';
+import { count, estimate, money, num, pairText, perUnit, pct, signed, unitName, wait, waitScale, type WaitScale } from '../format.js';
 import { changesText, instabilityBlocks } from './common.js';
 import { para, tableBlock, title, type Block } from './doc.js';
 
@@ -77,15 +77,16 @@ export function recommendedWords(d: DecisionPart, scale: WaitScale): string {
   return `Recommended (${r.why}): ${changes} · cost ${money(r.cost, d.costUnit)} · ${d.objectiveLabel} ${objectiveValue(d, r.objective, scale)} (today: ${today}).`;
 }
 
-function frontRow(d: DecisionPart, e: DesignFigures & { recommended?: boolean }, i: number, scale: WaitScale): string[] {
+function frontRow(d: DecisionPart, e: DesignFigures & { recommended?: boolean }, i: number, scale: WaitScale, simulated = false): string[] {
   return [
     `${e.recommended ? '→ ' : ''}${i + 1}`,
     num(e.cost),
-    e.backlog === null ? '—' : num(e.backlog),
+    e.backlog === null ? '—' : e.backlogCi95 ? estimate(e.backlog, e.backlogCi95[0], e.backlogCi95[1]) : num(e.backlog),
     ...(d.objective === 'weighted' || d.objective === 'net-value' ? [e.objective === null ? '—' : num(e.objective)] : []),
     ...(d.objective === 'net-value' ? [e.valueRate === null ? '—' : num(e.valueRate)] : []),
     e.maxWait === null ? '—' : `${wait(e.maxWait, scale)} (${e.maxWaitClass})`,
     e.spareCapacity === null ? '—' : num(e.spareCapacity),
+    ...(simulated ? [e.vsCheaper ? (e.vsCheaper.significant ? (e.vsCheaper.backlogDifference < 0 ? 'lower' : 'higher') : 'not distinguishable') : i === 0 ? '' : '—'] : []),
     changesText(e.added, e.removed),
   ];
 }
@@ -95,6 +96,7 @@ export function recommendText(r: RecommendRecord, o: { readonly waitUnit?: strin
   const scale = waitScale(r.timeUnit, r.pareto.flatMap((e) => (e.maxWait === null ? [] : [e.maxWait])), o.waitUnit);
   const budget = r.budget === null ? 'no budget limit' : `budget ${money(r.budget, r.costUnit)}`;
   const blocks: Block[] = [title(`${r.scenario} — designs worth considering (objective: ${r.objectiveLabel}, ${budget})`)];
+  const simulated = r.pareto.some((e) => e.method === 'simulation');
   if (r.instability) blocks.push(para("Today's design is unstable."), ...instabilityBlocks(r.instability, r.timeUnit, r.costUnit));
   blocks.push(
     tableBlock(
@@ -112,11 +114,15 @@ export function recommendText(r: RecommendRecord, o: { readonly waitUnit?: strin
             : []),
           { header: 'largest mean wait', align: 'right', secondary: true },
           { header: 'spare capacity', align: 'right', secondary: true },
+          ...(simulated ? [{ header: 'backlog vs previous', secondary: true }] : []),
           { header: 'changes from today', wrap: true },
         ],
-        rows: r.pareto.map((e, i) => frontRow(r, e, i, scale)),
+        rows: r.pareto.map((e, i) => frontRow(r, e, i, scale, simulated)),
       },
-      `Pareto set, cheapest first (no design is both cheaper and better${r.objectiveBetter === 'higher' ? ` — better is a higher ${r.objectiveLabel}: value of matches − ${r.waitingCost === null ? 'waiting cost (none in the file)' : `${num(r.waitingCost)} per waiting item per ${unitName(r.timeUnit)} × backlog`}; the net value rises along the set` : ''}${r.partial ? '; INTERRUPTED: what was found so far' : ''}; → the recommended design):`,
+      `Pareto set, cheapest first (no design is both cheaper and better${r.objectiveBetter === 'higher' ? ` — better is a higher ${r.objectiveLabel}: value of matches − ${r.waitingCost === null ? 'waiting cost (none in the file)' : `${num(r.waitingCost)} per waiting item per ${unitName(r.timeUnit)} × backlog`}; the net value rises along the set` : ''}${r.partial ? '; INTERRUPTED: what was found so far' : ''}; → the recommended design)` +
+        (simulated
+          ? '; backlogs simulated: ± is the half-width of the 95 % interval, and "vs previous" compares with the design above under the same random streams (lower or higher only when the paired difference is significant):'
+          : ':'),
     ),
   );
   blocks.push(para(recommendedWords(r, scale)));
@@ -146,7 +152,7 @@ export function recommendText(r: RecommendRecord, o: { readonly waitUnit?: strin
   const how = s.exhaustive ? 'every design enumerated' : 'MILP seeds + Pareto local search';
   blocks.push(
     para(
-      `${count(s.evaluations)} exact evaluation${s.evaluations === 1 ? '' : 's'}` +
+      (s.simulated ? `${count(s.evaluations)} evaluation${s.evaluations === 1 ? '' : 's'}, ${count(s.simulated)} of them simulated` : `${count(s.evaluations)} exact evaluation${s.evaluations === 1 ? '' : 's'}`) +
         (s.designSpace !== null ? ` (${pct(s.evaluations / s.designSpace, 2)} of the ${count(s.designSpace)} possible designs; ${how})` : ` (${how})`) +
         (s.harmfulRefused > 0 ? ` · ${count(s.harmfulRefused)} design${s.harmfulRefused === 1 ? '' : 's'} refused for paying for a harmful compatibility` : '') +
         ` · the cheapest stable design costs ${num(s.cheapestStableCost)}`,

@@ -1,0 +1,90 @@
+/**
+ * Benchmark of the simulation-scored recommender (figures printed, never asserted). Run alone:
+ *   npx tsx bench/simulated-recommend.ts                 accuracy on 20 classes, then 60 and 100 classes
+ *   npx tsx bench/simulated-recommend.ts accuracy|scale  one part
+ *
+ * Scenarios: tests/helpers/random-scenario.ts (seeded; cliques of 5 classes chained by random links,
+ * rates from positive flows, removable share 0.2, budget 60 % of the candidates' cost).
+ * - accuracy: `recommend --score simulation --seed 1` against `recommend --score exact` on the same
+ *   file: share of the returned designs whose 95 % interval covers their exact backlog
+ *   (evaluateExact), and the largest relative distance of their exact backlog above the exact front
+ *   at the same cost (the exact search's front: the reference is the exact search, not every design).
+ * - scale: 60 and 100 classes × 50 candidates, `--score simulation --jobs 2` from dist/ (worker
+ *   threads): wall time, designs scored, size of the front.
+ */
+import { spawnSync } from 'node:child_process';
+import { existsSync, mkdtempSync, writeFileSync } from 'node:fs';
+import { loadavg, tmpdir } from 'node:os';
+import { join } from 'node:path';
+import { evaluateExact } from '../src/exact/evaluate.js';
+import { parseScenario } from '../src/model/validate.js';
+import { randomScenario } from '../tests/helpers/random-scenario.js';
+import { scenarioDesign, type Pair } from '../tests/helpers/scenario-design.js';
+
+const cli = join(import.meta.dirname, '..', 'dist', 'cli', 'main.js');
+const dir = mkdtempSync(join(tmpdir(), 'edgewise-simrec-'));
+const parts = process.argv.slice(2);
+const want = (p: string): boolean => parts.length === 0 || parts.includes(p);
+
+interface Entry {
+  cost: number;
+  backlog: number;
+  backlogCi95?: [number, number];
+  added: Pair[];
+  removed: Pair[];
+}
+
+function run(file: string, args: string[]): { rec: { pareto: Entry[]; search: { scored: number } }; seconds: number } {
+  const t0 = performance.now();
+  const p = spawnSync(process.execPath, [cli, 'recommend', file, '--json', ...args], { encoding: 'utf8', maxBuffer: 1 << 28 });
+  if (p.status !== 0) throw new Error(`recommend ${args.join(' ')} exited ${p.status}: ${p.stderr}`);
+  return { rec: JSON.parse(p.stdout), seconds: (performance.now() - t0) / 1000 };
+}
+
+if (!existsSync(cli)) {
+  console.log('dist/ is missing: run npm run build first (this benchmark runs the built CLI)');
+  process.exit(0);
+}
+console.log(`load average ${loadavg().map((x) => x.toFixed(2)).join(' ')}`);
+
+if (want('accuracy')) {
+  console.log('accuracy, 20 classes × 12 candidates (--score simulation vs the exact search):');
+  let covered = 0;
+  let total = 0;
+  for (const seed of [1, 2, 3]) {
+    const { doc } = randomScenario(seed, { groups: 4, perGroup: 5, candidates: 12, removableShare: 0.2, budgetShare: 0.6 });
+    const file = join(dir, `acc${seed}.json`);
+    writeFileSync(file, JSON.stringify(doc));
+    const scenario = parseScenario(JSON.stringify(doc), file);
+    const sim = run(file, ['--score', 'simulation', '--seed', '1', '--jobs', '2']);
+    const ex = run(file, ['--score', 'exact', '--jobs', '2']);
+    const frontAt = (c: number): number => Math.min(...ex.rec.pareto.filter((f) => f.cost <= c + 1e-9).map((f) => f.backlog));
+    let cov = 0;
+    let worst = -Infinity;
+    for (const p of sim.rec.pareto) {
+      const exact = evaluateExact(scenarioDesign(scenario, p.added, p.removed)).backlogTotal;
+      if (p.backlogCi95 && p.backlogCi95[0] <= exact && exact <= p.backlogCi95[1]) cov++;
+      worst = Math.max(worst, exact / frontAt(p.cost) - 1);
+    }
+    covered += cov;
+    total += sim.rec.pareto.length;
+    console.log(
+      `  seed ${seed}: ${sim.rec.pareto.length} designs, coverage ${cov}/${sim.rec.pareto.length}, ` +
+        `worst exact distance above the exact front ${(worst * 100).toFixed(2)} % · simulated ${sim.seconds.toFixed(1)} s ` +
+        `(${sim.rec.search.scored} designs scored), exact ${ex.seconds.toFixed(1)} s`,
+    );
+  }
+  console.log(`  coverage over all: ${((100 * covered) / Math.max(1, total)).toFixed(1)} % of ${total} intervals`);
+}
+
+if (want('scale')) {
+  console.log('scale, --score simulation --jobs 2:');
+  for (const groups of [12, 20]) {
+    const n = groups * 5;
+    const { doc } = randomScenario(5, { groups, perGroup: 5, candidates: 50, removableShare: 0.2, budgetShare: 0.6 });
+    const file = join(dir, `scale${n}.json`);
+    writeFileSync(file, JSON.stringify(doc));
+    const r = run(file, ['--score', 'simulation', '--seed', '1', '--jobs', '2']);
+    console.log(`  ${n} classes × 50 candidates: ${r.seconds.toFixed(0)} s, ${r.rec.search.scored} designs scored, front of ${r.rec.pareto.length}`);
+  }
+}
