@@ -104,9 +104,16 @@ describe('value figures fit 120 columns at 24–40 classes', () => {
       const { doc } = randomScenario(seed, { groups, perGroup, candidates: 5, removableShare: 0.05, values: true, patience: true, budgetShare: 0.5, ids: 'hostile' });
       const file = writeScenario(work, `value-${seed}.json`, doc);
       const names = namesOf(doc as never);
-      const ev = await runAt('evaluate', evaluateCommand, { file } as never, work, 120);
+      const ev = await runAt('evaluate', evaluateCommand, { file, score: 'exact' } as never, work, 120);
       expect(ev.code, ev.err).toBe(0);
       expect(ev.out).toContain('net value');
+      // the default (auto) simulates a file with patience: the value figures come from the simulated match rates
+      const evSim = await runAt('evaluate', evaluateCommand, { file } as never, work, 120);
+      expect(evSim.code, evSim.err).toBe(0);
+      expect(evSim.out).toContain('net value');
+      expect(evSim.out.replace(/\s+/g, ' ')).toContain('From the simulated match rates');
+      expect(evSim.err).not.toContain('ignore patience');
+      expect(tooWide(evSim.out, 120)).toEqual([]);
       const runs = [ev];
       if (recommendToo) {
         const rec = await runAt('recommend', recommendCommand, { file, objective: 'net-value', exhaustive: true } as never, work, 120);

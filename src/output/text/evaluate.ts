@@ -87,6 +87,7 @@ export function evaluateText(r: EvaluateRecord, o: EvaluateTextOptions): Block[]
           ` · ${m.replications} replications of ${count(m.arrivals)} arrivals, seed ${m.seed}${m.abandonment ? ', with abandonment' : ''} · ± : half-width of the 95 % interval`,
       ),
     );
+    blocks.push(...valueBlocks(r));
     return blocks;
   }
   blocks.push(
@@ -112,7 +113,12 @@ function valueBlocks(r: EvaluateRecord): Block[] {
       : v.pairsWithValue === 0
         ? ' No pair of this design has a value in the file: every match counts 0.'
         : '';
-  const patience = v.patienceIgnored ? ' Exact FCFM figures: patience is ignored (see the warning).' : '';
+  const patience =
+    r.method === 'simulation'
+      ? ' From the simulated match rates (items that give up earn nothing): means of the replications, without an interval.'
+      : v.patienceIgnored
+        ? ' Exact FCFM figures: patience is ignored (see the warning).'
+        : '';
   const blocks: Block[] = [
     para(`Value of matches ${num(v.rate)}${u} (Σ value per match × match rate) − ${waiting} = net value ${num(v.net)}${u}.${zero}${patience}`),
   ];
