@@ -24,11 +24,13 @@ const LOOP_CHUNK = 1 << 14;
  * (Infinity when none), so FCFM is a minimum over the candidate list. Nothing is allocated per
  * arrival.
  *
- * The hot loops count only what cannot be recovered later: arrivals that wait, per class; matches
- * per (arriving class, partner class) pair; and the wait K and its bin of each item matched after
- * waiting. finish() derives the rest exactly (integers throughout, so no rounding):
+ * The hot loops count only what cannot be recovered later: matches per (arriving class, partner
+ * class) pair, and the wait K and its bin of each item matched after waiting. finish() derives the
+ * rest exactly (integers throughout, so no rounding):
+ *  - waited-matched items of class j: Σ of its histogram bins K ≥ 1 (every such item has K ≥ 1);
+ *  - arrivals of k that waited = (waiting now − waiting at the start) + waited-matched items of k,
+ *    since every item that waited is either matched after waiting or still waiting;
  *  - matched at once (class k) = Σ_j pairs(k, j); arrivals = matched at once + those that waited;
- *  - waited-matched items of class j: Σ of its histogram bins K ≥ 1;
  *  - the integral of the queue length of class k over the window = Σ over its items of their time
  *    in queue inside the window = waitSum(k) + Σ_{waiting at the end} (end − stamp)
  *    − Σ_{waiting at the start} (start − stamp): a matched item that was already waiting at the
@@ -62,9 +64,11 @@ export class ChainEngine {
   readonly headVal: Float64Array;
   readonly queues: Queues;
   private readonly rng: Uint32Array;
-  /** pairs[k·n + j]: arrivals of k that took a waiting j; pushes[k]: arrivals of k that waited. */
+  /** pairs[k·n + j]: arrivals of k that took a waiting j. */
   private readonly pairs: Float64Array;
-  private readonly pushes: Float64Array;
+  /** Per class at the start of the window or the last finish(): items waiting, waited-matched items. */
+  private readonly baseCount: Float64Array;
+  private readonly baseWaited: Float64Array;
   /** Per class at the start of the window: Σ (start − stamp) over the items waiting then. */
   private readonly startAge: Float64Array;
   /** candMask[k]: bit j set when j is a candidate of k (FCFM with at most 32 classes). */
@@ -82,7 +86,8 @@ export class ChainEngine {
     this.headVal = new Float64Array(n).fill(Infinity);
     this.counters = newCounters(n, model.m, 'arrivals');
     this.pairs = new Float64Array(n * n);
-    this.pushes = new Float64Array(n);
+    this.baseCount = new Float64Array(n);
+    this.baseWaited = new Float64Array(n);
     this.startAge = new Float64Array(n);
     this.candMask = new Int32Array(n);
     if (n <= 32) {
@@ -102,8 +107,9 @@ export class ChainEngine {
   startMeasuring(): void {
     resetCounters(this.counters, this.clock);
     this.pairs.fill(0);
-    this.pushes.fill(0);
+    this.baseWaited.fill(0); // the histograms start empty
     for (let k = 0; k < this.model.n; k++) {
+      this.baseCount[k] = this.counts[k]!;
       this.startAge[k] = this.ageSum(k, this.clock);
     }
   }
@@ -133,12 +139,14 @@ export class ChainEngine {
         immediate += x;
       }
       c.immediate[k] += immediate;
-      c.arrivals[k] += immediate + this.pushes[k]!;
+      const pushes = this.counts[k]! - this.baseCount[k]! + (waited - this.baseWaited[k]!);
+      this.baseCount[k] = this.counts[k]!;
+      this.baseWaited[k] = waited;
+      c.arrivals[k] += immediate + pushes;
       c.area[k] = c.waitSum[k]! + this.ageSum(k, end) - this.startAge[k]!;
       c.last[k] = end;
     }
     this.pairs.fill(0);
-    this.pushes.fill(0);
   }
 
   /** Simulates `count` more arrivals. */
@@ -186,7 +194,6 @@ export class ChainEngine {
     const { counts, headVal, queues, pairs } = this;
     const { head, off, mask, cap, buf } = queues;
     const { waitSum, hist, bins } = this.counters;
-    const pushes = this.pushes;
     const maxWaiting = this.maxWaiting;
     const scale = n * TWO_POW_M32;
     const rng = this.rng;
@@ -231,7 +238,6 @@ export class ChainEngine {
       if (bt === Infinity) {
         const c = counts[k]!;
         buf[off[k]! + ((head[k]! + c) & mask[k]!)] = t;
-        pushes[k]++;
         if (c === 0) headVal[k] = t;
         counts[k] = c + 1;
         if (++waiting > maxWaiting) {
@@ -275,7 +281,6 @@ export class ChainEngine {
     const { counts, headVal, queues, pairs } = this;
     const { head, off, mask, cap, buf } = queues;
     const { waitSum, hist, bins } = this.counters;
-    const pushes = this.pushes;
     const maxWaiting = this.maxWaiting;
     const scale = n * TWO_POW_M32;
     const rng = this.rng;
@@ -310,7 +315,6 @@ export class ChainEngine {
       if (cand === 0) {
         const c = counts[k]!;
         buf[off[k]! + ((head[k]! + c) & mask[k]!)] = t;
-        pushes[k]++;
         if (c === 0) {
           headVal[k] = t;
           busy |= 1 << k;
@@ -368,7 +372,6 @@ export class ChainEngine {
     const { counts, headVal, queues, pairs } = this;
     const { head, off, mask, cap } = queues;
     const { waitSum, hist, bins } = this.counters;
-    const pushes = this.pushes;
     const maxWaiting = this.maxWaiting;
     const scale = n * TWO_POW_M32;
     let buf = queues.buf;
@@ -413,7 +416,6 @@ export class ChainEngine {
             buf = queues.buf;
           }
           buf[off[k]! + ((head[k]! + c) & mask[k]!)] = t;
-          pushes[k]++;
           if (c === 0) headVal[k] = t;
           counts[k] = c + 1;
           if (++waiting > maxWaiting) {
