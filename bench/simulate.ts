@@ -5,7 +5,8 @@
  * `--jobs 2` (built CLI).
  *
  * Run alone: npx tsx bench/simulate.ts   (about two minutes on an idle 2-core machine)
- * EDGEWISE_BENCH_SCALING_ONLY=1 runs only the --jobs comparison.
+ * EDGEWISE_BENCH_SCALING_ONLY=1 runs only the --jobs comparison; EDGEWISE_BENCH_FCFM_ONLY=1 only the FCFM
+ * comparison with the C simulator.
  * Figures are printed, never asserted. Rates are arrivals per CPU second of the hot loop (wall-clock
  * rates in brackets): on a shared machine CPU time moves less with the other load.
  */
@@ -142,6 +143,7 @@ async function main(): Promise<void> {
     ['25-class odd cycle', cycle],
     ['10-class dense design', dense],
   ]);
+  if (process.env.EDGEWISE_BENCH_FCFM_ONLY) return;
   log('');
   log('one thread, other policies (1 × 10,000,000 arrivals)');
   for (const policy of ['most-waiting', 'ranked', 'random-class'] as const) {
