@@ -67,6 +67,26 @@ function outcome(problem: DesignProblem, objective: ObjectiveName, design: Array
   return { stable: true, objective: obj, backlog: r.backlogTotal, wait: r.wait, cost, admissible, meetsTargets: meets, feasible: admissible && meets };
 }
 
+/** The single change of `design` that flips toggle j, from the changed design's evaluation, measured against `base`. */
+function changeOf(
+  problem: DesignProblem,
+  objective: ObjectiveName,
+  design: Uint8Array,
+  j: number,
+  r: Evaluated,
+  base: DesignOutcome,
+  changed: Uint8Array = flip(design, j),
+): SingleChange {
+  const o = outcome(problem, objective, changed, r);
+  return {
+    ...o,
+    toggle: j,
+    change: design[j] ? 'remove' : 'add',
+    delta: o.stable ? o.objective - base.objective : Infinity,
+    backlogDelta: o.stable ? o.backlog - base.backlog : Infinity,
+  };
+}
+
 /** The design with toggle j switched. */
 export function flip(design: ArrayLike<number>, j: number): Uint8Array {
   const d = Uint8Array.from(design);
@@ -106,15 +126,7 @@ export function singleChanges(
       if (e instanceof EdgewiseError) continue; // a joined component beyond the guard: no verdict
       throw e;
     }
-    const changed = flip(design, j);
-    const o = outcome(problem, objective, changed, r);
-    changes.push({
-      ...o,
-      toggle: j,
-      change: design[j] ? 'remove' : 'add',
-      delta: o.stable ? o.objective - base.objective : Infinity,
-      backlogDelta: o.stable ? o.backlog - base.backlog : Infinity,
-    });
+    changes.push(changeOf(problem, objective, design, j, r, base));
   }
   return { design, base, changes };
 }
@@ -161,14 +173,7 @@ function freshChanges(
       if (e instanceof EdgewiseError) continue;
       throw e;
     }
-    const o = outcome(problem, objective, changed, r);
-    changes.push({
-      ...o,
-      toggle: j,
-      change: design[j] ? 'remove' : 'add',
-      delta: o.stable ? o.objective - base.objective : Infinity,
-      backlogDelta: o.stable ? o.backlog - base.backlog : Infinity,
-    });
+    changes.push(changeOf(problem, objective, design, j, r, base, changed));
   }
   return { design, base, changes };
 }

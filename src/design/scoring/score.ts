@@ -50,7 +50,20 @@ export interface ScoreSpec {
   readonly patience?: readonly number[];
 }
 
-export interface Score {
+/** How a design's figures were made, and what a simulated score adds (absent fields: exact). */
+export interface SimulatedFigures {
+  /** How the figures were made (absent: exact). */
+  readonly method?: 'exact' | 'simulation';
+  /** Simulated: 95 % interval of the total backlog. */
+  readonly backlogCi95?: Interval | null;
+  /** Simulated: total backlog of each replication (paired comparisons under common random numbers). */
+  readonly perReplication?: Float64Array;
+  /** Simulated with patience: share of arrivals that abandon, per class and over all. */
+  readonly abandonShare?: Float64Array;
+  readonly abandonShareTotal?: number;
+}
+
+export interface Score extends SimulatedFigures {
   readonly stable: boolean;
   /** Mean total backlog (NaN when unstable). */
   readonly backlogTotal: number;
@@ -62,15 +75,6 @@ export interface Score {
   readonly independentSets: number;
   /** True when the exact evaluator ran (it counts as one evaluation). */
   readonly evaluated: boolean;
-  /** How the figures were made (absent: exact). */
-  readonly method?: 'exact' | 'simulation';
-  /** Simulated: 95 % interval of the total backlog. */
-  readonly backlogCi95?: Interval | null;
-  /** Simulated: total backlog of each replication (paired comparisons under common random numbers). */
-  readonly perReplication?: Float64Array;
-  /** Simulated: share of arrivals that abandon, per class and over all. */
-  readonly abandonShare?: Float64Array;
-  readonly abandonShareTotal?: number;
   /** Simulated, per class: ends of the 95 % interval of the backlog (when per-class figures are asked). */
   readonly backlogLo?: Float64Array;
   readonly backlogHi?: Float64Array;

@@ -22,8 +22,7 @@
  */
 import { admissibleBeforeEvaluation, designKey, type DesignProblem } from '../space/problem.js';
 import type { DesignEvaluator, DesignRecord, Origin } from '../scoring/evaluator.js';
-import { comparePoints, paretoFront } from '../space/pareto.js';
-import { lower } from '../space/objective.js';
+import { comparePoints, frontOfSorted, paretoFront } from '../space/pareto.js';
 import { penaltyVerdict } from '../space/penalty.js';
 import { SearchStopped } from '../scoring/scorer.js';
 
@@ -127,7 +126,7 @@ export class SearchState {
     const out: DesignRecord[][] = [];
     let rest = this.sorted;
     for (let d = 0; d < depth && rest.length > 0; d++) {
-      const front = sweepSorted(rest);
+      const front = frontOfSorted(rest);
       out.push(front);
       const taken = new Set(front);
       rest = rest.filter((r) => !taken.has(r));
@@ -161,19 +160,6 @@ function mergeSorted(a: readonly DesignRecord[], b: readonly DesignRecord[]): De
   while (i < a.length && j < b.length) out[o++] = comparePoints(a[i]!, b[j]!) <= 0 ? a[i++]! : b[j++]!;
   while (i < a.length) out[o++] = a[i++]!;
   while (j < b.length) out[o++] = b[j++]!;
-  return out;
-}
-
-/** paretoFront of points already sorted by comparePoints (its sweep, without the sort). */
-function sweepSorted(sorted: readonly DesignRecord[]): DesignRecord[] {
-  const out: DesignRecord[] = [];
-  let best = Infinity;
-  for (const p of sorted) {
-    if (lower(p.objective, best)) {
-      out.push(p);
-      best = p.objective;
-    }
-  }
   return out;
 }
 

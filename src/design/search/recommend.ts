@@ -26,8 +26,8 @@ import { checkStability } from '../../stability/check.js';
 import { seededRandom } from '../../random.js';
 import { baselines as buildBaselines, type BaselineName } from './baselines.js';
 import { DesignEvaluator, scoreSpecOf, type DesignRecord, type ScoringChoice } from '../scoring/evaluator.js';
-import { simulatesAlways, type Score, type ScoreMethod } from '../scoring/score.js';
-import { pairedDifference, reportPlan, searchPlan, type Interval, type PairedDifference } from '../scoring/sim-score.js';
+import { simulatesAlways, type Score, type ScoreMethod, type SimulatedFigures } from '../scoring/score.js';
+import { pairedDifference, reportPlan, searchPlan, type PairedDifference } from '../scoring/sim-score.js';
 import { exhaustiveSearch, MAX_EXHAUSTIVE_TOGGLES } from './exhaustive.js';
 import { paretoLocalSearch } from './local-search.js';
 import { budgetLadder, cheapestStableDesign, maxMinFlowDesign, type MilpDesign } from './milp.js';
@@ -104,7 +104,7 @@ export interface RecommendOptions {
 }
 
 /** Exact figures of a design on the front or of a baseline. */
-export interface DesignDetails {
+export interface DesignDetails extends SimulatedFigures {
   readonly design: Uint8Array;
   readonly key: string;
   readonly cost: number;
@@ -126,17 +126,9 @@ export interface DesignDetails {
   /** Smallest λ(N(I)) − λ(I) over independent sets I (the bottleneck), when stable. */
   readonly bottleneckSlack: number;
   readonly independentSets: number;
-  /** How the figures were made (absent: exact). */
-  readonly method?: 'exact' | 'simulation';
-  /** Simulated: 95 % interval of the total backlog, and per class of the waits. */
-  readonly backlogCi95?: Interval | null;
+  /** Simulated: ends of the 95 % interval of each class's wait. */
   readonly waitLo?: Float64Array;
   readonly waitHi?: Float64Array;
-  /** Simulated: total backlog per replication (common random numbers). */
-  readonly perReplication?: Float64Array;
-  /** Simulated with patience: share of arrivals that abandon, per class and over all. */
-  readonly abandonShare?: Float64Array;
-  readonly abandonShareTotal?: number;
   /** On the front, simulated: backlog of this design minus that of the next cheaper one (paired, same streams). */
   readonly vsCheaper?: PairedDifference;
 }

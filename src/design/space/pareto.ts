@@ -28,7 +28,11 @@ export function comparePoints(a: ParetoPoint, b: ParetoPoint): number {
 
 /** The non-dominated points, sorted by cost (objective strictly decreasing along the front). */
 export function paretoFront<T extends ParetoPoint>(points: Iterable<T>): T[] {
-  const sorted = [...points].sort(comparePoints);
+  return frontOfSorted([...points].sort(comparePoints));
+}
+
+/** paretoFront of points already sorted by comparePoints (its sweep, without the sort). */
+export function frontOfSorted<T extends ParetoPoint>(sorted: readonly T[]): T[] {
   const out: T[] = [];
   let best = Infinity;
   for (const p of sorted) {
