@@ -80,6 +80,8 @@ export interface RecommendRecord extends RecordBase, DecisionPart {
     readonly designSpace: number | null;
     readonly exhaustive: boolean;
     readonly harmfulRefused: number;
+    /** The search stopped at this limit of designs scored (null: it ran to its end). */
+    readonly designLimit: number | null;
     readonly cheapestStableCost: number;
     readonly milp: { readonly cheapest: MilpEntry; readonly ladder: Array<{ readonly budget: number; readonly design: MilpEntry | null }> };
   };
@@ -178,6 +180,9 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
     ...(input.score === undefined || input.score === 'exact' ? exactWarnings(ctx, 'The figures of every design') : scoringWarnings(ctx, input.score, rec, simulatedFront)),
     ...(p.hasValues ? valueWarnings(ctx) : []),
     rec.partial ? 'interrupted: the Pareto set is what the search had found so far; designs not yet checked for harmful paid compatibilities may be in it, and no verdicts were computed' : null,
+    rec.designLimit !== undefined
+      ? `the simulated search stopped at its limit of ${rec.designLimit} designs scored (--max-designs): designs it did not reach may be better, and designs not yet checked for harmful paid compatibilities may be in the Pareto set`
+      : null,
   ];
   return {
     ...recordBase(ctx, 'recommend', warnings),
@@ -204,6 +209,7 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
       designSpace: rec.toggles <= 53 ? rec.designSpace : null,
       exhaustive: rec.exhaustive,
       harmfulRefused: rec.harmfulRefused,
+      designLimit: rec.designLimit ?? null,
       cheapestStableCost: rec.milp.cheapest.cost,
       milp: { cheapest: milpEntry(rec.milp.cheapest), ladder: rec.milp.ladder.map((l) => ({ budget: l.budget, design: l.design ? milpEntry(l.design) : null })) },
     },

@@ -18,6 +18,7 @@ export interface RecommendCommandOptions extends ContextFlags, OutputOptions {
   readonly exhaustive?: boolean;
   readonly seed?: number | string;
   readonly maxSets?: number;
+  readonly maxDesigns?: number | string;
   readonly waitUnit?: string;
   readonly score?: string;
   /** Write the chosen design (the recommended one, or Pareto entry --pick K) to this file. */
@@ -49,6 +50,7 @@ export function recommendCommand(opts: RecommendCommandOptions, io: CommandIO): 
           jobs: wholeNumber(opts.jobs, '--jobs', 1, 1, 256),
           exhaustive: opts.exhaustive === true,
           seed: wholeNumber(opts.seed, '--seed', 0, 1),
+          ...(opts.maxDesigns === undefined ? {} : { maxDesigns: wholeNumber(opts.maxDesigns, '--max-designs', 1, 1) }),
           ...(opts.maxSets === undefined ? {} : { maxSets: opts.maxSets }),
           ...(io.signal ? { signal: io.signal } : {}),
           ...(io.isTTY

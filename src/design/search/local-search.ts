@@ -35,6 +35,12 @@ export interface SearchOptions {
   readonly kicks?: number;
   /** Uniform [0, 1) generator for the kicks (seeded by the caller). */
   readonly random: () => number;
+  /**
+   * Most designs the evaluator may have scored (absent: no limit). A round that would pass it scores
+   * the neighbours of its designs in turn (the first neighbour of each, then the second, ...) up to
+   * the limit, and the search stops there (`limitReached`).
+   */
+  readonly maxDesigns?: number;
 }
 
 export interface SearchResult {
@@ -48,6 +54,8 @@ export interface SearchResult {
   readonly kicks: number;
   /** True when the search was stopped (SIGINT) before it finished: the front is what was found so far. */
   readonly stopped: boolean;
+  /** True when the search stopped at `maxDesigns`. */
+  readonly limitReached: boolean;
 }
 
 /** Neighbours of a design that respect the budget and maxCompatibilities: flips, then swaps. */
@@ -206,14 +214,35 @@ export async function paretoLocalSearch(evaluator: DesignEvaluator, seeds: reado
   let kicks = 0;
   const state = new SearchState(evaluator);
   let rounds = 0;
+  const limit = { reached: false };
   try {
     await evaluator.evaluate(seeds.filter((d) => admissibleBeforeEvaluation(problem, d)));
-    rounds = await searchRounds(evaluator, state, options, depth, swapLayers, targets, kicksLeft, (k) => (kicks += k));
+    rounds = await searchRounds(evaluator, state, options, depth, swapLayers, targets, kicksLeft, (k) => (kicks += k), limit);
   } catch (e) {
     if (!(e instanceof SearchStopped)) throw e;
-    return { front: paretoFront(state.pool()), harmful: state.harmful, rounds, kicks, stopped: true };
+    return { front: paretoFront(state.pool()), harmful: state.harmful, rounds, kicks, stopped: true, limitReached: limit.reached };
   }
-  return { front: paretoFront(state.pool()), harmful: state.harmful, rounds, kicks, stopped: false };
+  return { front: paretoFront(state.pool()), harmful: state.harmful, rounds, kicks, stopped: false, limitReached: limit.reached };
+}
+
+/**
+ * The batch cut to `room` designs, taking the neighbours of the round's designs in turn (the first of
+ * each, then the second, ...), so that a cut round still reaches along the whole front.
+ */
+function interleaved<T>(groups: readonly T[][], room: number): T[] {
+  const out: T[] = [];
+  for (let i = 0; out.length < room; i++) {
+    let any = false;
+    for (const g of groups) {
+      if (i < g.length) {
+        any = true;
+        out.push(g[i]!);
+        if (out.length >= room) break;
+      }
+    }
+    if (!any) break;
+  }
+  return out;
 }
 
 /** The expansion rounds of the search (see paretoLocalSearch); returns how many ran. */
@@ -226,6 +255,7 @@ async function searchRounds(
   targets: boolean,
   kicksLeft: number,
   addKicks: (k: number) => void,
+  limit: { reached: boolean },
 ): Promise<number> {
   const problem = evaluator.problem;
   let rounds = 0;
@@ -242,29 +272,47 @@ async function searchRounds(
     if (targets) for (const r of state.guides()) want(r, 2);
     const frontier = [...levels.values()];
     frontier.sort((x, y) => comparePoints(x.r, y.r));
+    const room = options.maxDesigns === undefined ? Infinity : options.maxDesigns - evaluator.scored;
+    if (room <= 0) {
+      limit.reached = true;
+      break;
+    }
     if (frontier.length === 0) {
       if (kicksLeft <= 0) break;
-      const batch = kickDesigns(problem, layers[0] ?? [], Math.min(kicksLeft, 8), options.random, (key) => evaluator.has(key));
+      const batch = kickDesigns(problem, layers[0] ?? [], Math.min(kicksLeft, 8, room), options.random, (key) => evaluator.has(key));
       kicksLeft -= Math.max(batch.length, 1);
       addKicks(batch.length);
       if (batch.length > 0) await evaluator.evaluate(batch);
       continue;
     }
     rounds++;
-    const batch: Uint8Array[] = [];
-    const origins: Array<Origin | undefined> = [];
+    const groups: Array<Array<{ d: Uint8Array; origin: Origin | undefined }>> = [];
     const queued = new Set<string>();
+    let size = 0;
     for (const { r, level } of frontier) {
+      const group: Array<{ d: Uint8Array; origin: Origin | undefined }> = [];
       for (const d of neighbours(problem, r.design, level === 2)) {
         const key = designKey(d);
         if (evaluator.has(key) || queued.has(key)) continue;
         queued.add(key);
-        batch.push(d);
         const j = flippedToggle(r.design, d);
-        origins.push(j >= 0 ? { from: r, toggle: j } : undefined);
+        group.push({ d, origin: j >= 0 ? { from: r, toggle: j } : undefined });
       }
+      groups.push(group);
+      size += group.length;
     }
-    await evaluator.evaluate(batch, origins);
+    const cut = size > room;
+    const picked = cut ? interleaved(groups, room) : groups.flat();
+    await evaluator.evaluate(
+      picked.map((x) => x.d),
+      picked.map((x) => x.origin),
+    );
+    if (cut) {
+      // the round's designs are not fully expanded: their penalty may still be unknown
+      for (const { r } of frontier) state.judge(r);
+      limit.reached = true;
+      break;
+    }
     for (const { r, level } of frontier) {
       state.expanded.set(r.key, level);
       state.judge(r);

@@ -86,6 +86,11 @@ export interface RecommendOptions {
   readonly swapLayers?: number;
   /** Random kicks of the local search (default: the number of toggles). */
   readonly kicks?: number;
+  /**
+   * Most designs the search may score (default: no limit for an exact search,
+   * SIMULATED_SEARCH_DESIGNS for a simulated one). The search stops there and says so.
+   */
+  readonly maxDesigns?: number;
   readonly onProgress?: (p: RecommendProgress) => void;
   /**
    * Scoring of the designs one toggle away from a scored design (add/remove moves, the penalty's
@@ -174,7 +179,17 @@ export interface Recommendation {
   readonly today?: DesignDetails;
   /** Designs scored by simulation during the search. */
   readonly simulated?: number;
+  /** The search stopped at its limit of designs (`maxDesigns`): the value of that limit. */
+  readonly designLimit?: number;
 }
+
+/**
+ * Designs a simulated search scores at most by default. Each costs a short simulation (3
+ * replications of 20 000–60 000 arrivals, about 0.03–0.1 s a design at 80–100 classes on one core),
+ * so the search stays within minutes where the full first-layer expansion measured well over an
+ * hour at 80 classes × 50 candidates.
+ */
+export const SIMULATED_SEARCH_DESIGNS = 1500;
 
 /** Why `--objective net-value` is refused on a file without values. */
 export const NO_VALUES_MESSAGE =
@@ -345,9 +360,13 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
     let front: DesignRecord[] = [];
     let harmful: ReadonlyMap<string, number[]> = new Map();
     let partial = false;
+    let simulatedSearch = method === 'simulation' || simulatesAll;
+    let limitReached = false;
     try {
       // something to show early: today's design and the cheapest stable one
-      await evaluator.evaluate([Uint8Array.from(problem.today), cheapest.design].filter((d) => withinBudget(problem, d) && degreesAllowed(problem, d)));
+      const first = await evaluator.evaluate([Uint8Array.from(problem.today), cheapest.design].filter((d) => withinBudget(problem, d) && degreesAllowed(problem, d)));
+      // under auto, a problem whose first designs are past the exact guard is searched as a simulated one
+      simulatedSearch ||= first.some((r) => r.method === 'simulation');
       const high = Math.min(problem.budget, fullCost(problem));
       const ladderLevels = options.ladderLevels ?? (options.exhaustive ? 5 : 0);
       const levels = ladderLevels === 0 ? [] : budgetLadder(cheapest.cost, Math.max(cheapest.cost, high), ladderLevels);
@@ -364,16 +383,19 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
         partial = r.stopped;
       } else {
         phase = 'search';
+        const maxDesigns = options.maxDesigns ?? (simulatedSearch ? SIMULATED_SEARCH_DESIGNS : undefined);
         const r = await paretoLocalSearch(evaluator, seeds, {
           random: seededRandom(options.seed ?? 1),
           // a simulated search expands the first layer only, without swaps, and kicks less: each
           // simulated design costs about as much as thousands of small exact ones
-          depth: options.depth ?? (method === 'simulation' || simulatesAll ? 1 : objective === 'max-wait' ? 4 : 2),
-          ...(options.kicks === undefined ? (method === 'simulation' || simulatesAll ? { kicks: Math.min(problem.toggles.length, 10) } : {}) : { kicks: options.kicks }),
-          ...(options.swapLayers === undefined ? (method === 'simulation' || simulatesAll ? { swapLayers: 0 } : {}) : { swapLayers: options.swapLayers }),
+          depth: options.depth ?? (simulatedSearch ? 1 : objective === 'max-wait' ? 4 : 2),
+          ...(options.kicks === undefined ? (simulatedSearch ? { kicks: Math.min(problem.toggles.length, 10) } : {}) : { kicks: options.kicks }),
+          ...(options.swapLayers === undefined ? (simulatedSearch ? { swapLayers: 0 } : {}) : { swapLayers: options.swapLayers }),
+          ...(maxDesigns === undefined ? {} : { maxDesigns }),
         });
         ({ front, harmful } = r);
         partial = r.stopped;
+        limitReached = r.limitReached;
       }
     } catch (e) {
       if (!(e instanceof SearchStopped)) throw e;
@@ -397,7 +419,10 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
     if (finalSpec) {
       // one batch on the pool: the front, the baselines and today's design, in input order
       const batch = [...front.map((r) => r.design), ...base.map((b) => b.design), Uint8Array.from(problem.today)];
-      const rescorer = partial ? inThreadScorer(finalSpec) : createScorer(finalSpec, options.jobs ?? 1, url);
+      // interrupted: a quick re-score in this thread (the search's length, 5 replications) so the
+      // partial answer comes within seconds; the figures keep their intervals
+      const quick = { ...finalSpec, sim: { ...finalSpec.sim!, arrivals: spec.sim!.arrivals, warmup: spec.sim!.warmup, replications: 5 } };
+      const rescorer = partial ? inThreadScorer(quick) : createScorer(finalSpec, options.jobs ?? 1, url);
       let scores: Score[];
       try {
         scores = await rescorer.score(batch);
@@ -455,6 +480,7 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       partial,
       today: details(Uint8Array.from(problem.today)),
       simulated,
+      ...(limitReached ? { designLimit: options.maxDesigns ?? SIMULATED_SEARCH_DESIGNS } : {}),
     };
   } finally {
     await scorer.close();

@@ -1,0 +1,53 @@
+import { describe, expect, it } from 'vitest';
+import { recommend } from '../../src/design/search/recommend.js';
+import { DesignEvaluator } from '../../src/design/scoring/evaluator.js';
+import { inThreadScorer } from '../../src/design/scoring/scorer.js';
+import { scoreSpecOf } from '../../src/design/scoring/evaluator.js';
+import { paretoLocalSearch } from '../../src/design/search/local-search.js';
+import { seededRandom } from '../../src/random.js';
+import { randomProblem } from '../helpers/design-problems.js';
+import { Rng } from '../helpers/random.js';
+
+// The limit of designs a search may score (--max-designs): the count is a hard cap, a cut round
+// and a limit the search does not reach changes nothing (the search without a limit is checked
+// against brute force in recommend.test.ts).
+
+function problem(seed: number) {
+  const rng = new Rng(seed);
+  return randomProblem(rng, { minClasses: 7, maxClasses: 8, toggles: 12, removableShare: 0.3, budgetShare: 0.6, loopProb: 0.3 });
+}
+
+describe('the search limit of designs scored', () => {
+  it('never scores more designs than the limit, and says it stopped there', async () => {
+    for (const seed of [3, 4, 5]) {
+      const p = problem(seed);
+      const full = await recommend(p, { workerUrl: null });
+      const limit = Math.max(3, Math.floor(full.scored / 3));
+      const cut = await recommend(p, { workerUrl: null, maxDesigns: limit });
+      // the search itself stops at the limit (the baselines' penalty neighbours are scored after it)
+      expect(cut.designLimit).toBe(limit);
+      expect(cut.scored).toBeLessThan(full.scored);
+      expect(full.designLimit).toBeUndefined();
+      expect(cut.pareto.length).toBeGreaterThan(0);
+      for (const d of cut.pareto) expect(d.stable).toBe(true);
+    }
+  });
+
+  it('cuts a round by taking the neighbours of every frontier design in turn', async () => {
+    const p = problem(7);
+    const spec = scoreSpecOf(p, 'total', undefined);
+    const ev = new DesignEvaluator(p, 'total', inThreadScorer(spec));
+    const seeds = [Uint8Array.from(p.today)];
+    const r = await paretoLocalSearch(ev, seeds, { random: seededRandom(1), maxDesigns: 1 + 5 });
+    expect(r.limitReached).toBe(true);
+    expect(ev.scored).toBe(6);
+  });
+
+  it('a limit the search does not reach changes nothing', async () => {
+    const p = problem(8);
+    const full = await recommend(p, { workerUrl: null });
+    const roomy = await recommend(p, { workerUrl: null, maxDesigns: full.scored + 10 });
+    expect(roomy.designLimit).toBeUndefined();
+    expect(roomy.pareto.map((d) => [d.key, d.objective])).toEqual(full.pareto.map((d) => [d.key, d.objective]));
+  });
+});
