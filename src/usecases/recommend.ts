@@ -181,7 +181,7 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
     ...(p.hasValues ? valueWarnings(ctx) : []),
     rec.partial ? 'interrupted: the Pareto set is what the search had found so far; designs not yet checked for harmful paid compatibilities may be in it, and no verdicts were computed' : null,
     rec.designLimit !== undefined
-      ? `the simulated search stopped at its limit of ${rec.designLimit} designs scored (--max-designs): designs it did not reach may be better, and designs not yet checked for harmful paid compatibilities may be in the Pareto set`
+      ? `the search stopped at its limit of ${rec.designLimit} designs scored (--max-designs): designs it did not reach may be better, and designs not yet checked for harmful paid compatibilities may be in the Pareto set`
       : null,
   ];
   return {

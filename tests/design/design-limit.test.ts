@@ -1,5 +1,6 @@
 import { describe, expect, it } from 'vitest';
 import { recommend } from '../../src/design/search/recommend.js';
+import { UsageError } from '../../src/errors.js';
 import { DesignEvaluator } from '../../src/design/scoring/evaluator.js';
 import { inThreadScorer } from '../../src/design/scoring/scorer.js';
 import { scoreSpecOf } from '../../src/design/scoring/evaluator.js';
@@ -49,5 +50,9 @@ describe('the search limit of designs scored', () => {
     const roomy = await recommend(p, { workerUrl: null, maxDesigns: full.scored + 10 });
     expect(roomy.designLimit).toBeUndefined();
     expect(roomy.pareto.map((d) => [d.key, d.objective])).toEqual(full.pareto.map((d) => [d.key, d.objective]));
+  });
+
+  it('is refused with --exhaustive, which scores every design', async () => {
+    await expect(recommend(problem(3), { workerUrl: null, exhaustive: true, maxDesigns: 10 })).rejects.toBeInstanceOf(UsageError);
   });
 });

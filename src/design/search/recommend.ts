@@ -320,6 +320,9 @@ function fullCost(problem: DesignProblem): number {
 export async function recommend(problem: DesignProblem, options: RecommendOptions = {}): Promise<Recommendation> {
   const objective = options.objective ?? 'total';
   if (needsMatchRates(objective) && !problem.hasValues) throw new UsageError(NO_VALUES_MESSAGE);
+  if (options.exhaustive && options.maxDesigns !== undefined) {
+    throw new UsageError('--max-designs limits the search; --exhaustive scores every design: give one or the other');
+  }
   if (options.exhaustive && problem.toggles.length > MAX_EXHAUSTIVE_TOGGLES) {
     throw new UsageError(
       `--exhaustive enumerates 2^${problem.toggles.length} designs; it is limited to ${MAX_EXHAUSTIVE_TOGGLES} removable compatibilities and candidates together`,
@@ -361,7 +364,8 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
     let harmful: ReadonlyMap<string, number[]> = new Map();
     let partial = false;
     let simulatedSearch = method === 'simulation' || simulatesAll;
-    let limitReached = false;
+    /** The limit the search stopped at (undefined: it ran to its end). */
+    let designLimit: number | undefined;
     try {
       // something to show early: today's design and the cheapest stable one
       const first = await evaluator.evaluate([Uint8Array.from(problem.today), cheapest.design].filter((d) => withinBudget(problem, d) && degreesAllowed(problem, d)));
@@ -395,7 +399,7 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
         });
         ({ front, harmful } = r);
         partial = r.stopped;
-        limitReached = r.limitReached;
+        if (r.limitReached) designLimit = maxDesigns;
       }
     } catch (e) {
       if (!(e instanceof SearchStopped)) throw e;
@@ -480,7 +484,7 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       partial,
       today: details(Uint8Array.from(problem.today)),
       simulated,
-      ...(limitReached ? { designLimit: options.maxDesigns ?? SIMULATED_SEARCH_DESIGNS } : {}),
+      ...(designLimit === undefined ? {} : { designLimit }),
     };
   } finally {
     await scorer.close();
