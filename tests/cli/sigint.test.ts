@@ -9,7 +9,9 @@ import { randomScenario } from '../helpers/random-scenario.js';
 // SIGINT on the built CLI (dist/ is built by tests/global-setup.ts): `recommend` and `simulate`
 // stop, print what they found so far as a valid JSON document marked partial, and exit 130. The
 // signal is sent after about 3 s; on a machine so slow that nothing was found yet, the run is
-// repeated with a longer wait (this is not a timing test: only the outcome is checked).
+// repeated with a longer wait (this is not a timing test: only the outcome is checked). The
+// simulate run is sized (400 × 2 M arrivals) so that no machine finishes it before the signal: a
+// fast CI machine finished 400 × 200 000 arrivals in under 3 s.
 
 const root = join(import.meta.dirname, '..', '..');
 const dir = mkdtempSync(join(tmpdir(), 'edgewise-sigint-'));
@@ -57,7 +59,7 @@ describe('SIGINT on the built CLI', () => {
   }, 120_000);
 
   it('simulate --json: exit 130, the finished replications only, marked partial', async () => {
-    const r = await interruptedWithResult(['simulate', 'big.json', '--json', '--arrivals', '200000', '--replications', '400', '--jobs', '2']);
+    const r = await interruptedWithResult(['simulate', 'big.json', '--json', '--arrivals', '2000000', '--replications', '400', '--jobs', '2']);
     expect(r.code, r.err).toBe(130);
     const doc = JSON.parse(r.out);
     expect(doc.partial).toBe(true);
