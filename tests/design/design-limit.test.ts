@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { recommend } from '../../src/design/search/recommend.js';
+import { defaultDesignLimit, EXACT_SEARCH_MIN_DESIGNS, EXACT_SEARCH_SETS, recommend, SIMULATED_SEARCH_DESIGNS } from '../../src/design/search/recommend.js';
 import { UsageError } from '../../src/errors.js';
 import { DesignEvaluator } from '../../src/design/scoring/evaluator.js';
 import { inThreadScorer } from '../../src/design/scoring/scorer.js';
@@ -54,5 +54,22 @@ describe('the search limit of designs scored', () => {
 
   it('is refused with --exhaustive, which scores every design', async () => {
     await expect(recommend(problem(3), { workerUrl: null, exhaustive: true, maxDesigns: 10 })).rejects.toBeInstanceOf(UsageError);
+  });
+
+  it('by default counts independent sets when exact: the limit times the largest first design stays within the set budget', async () => {
+    expect(defaultDesignLimit(true, [10])).toBe(SIMULATED_SEARCH_DESIGNS);
+    expect(defaultDesignLimit(false, [])).toBeUndefined();
+    for (const sets of [1, 5_000, 30_000, 1_112_270, 7e6, 5e7]) {
+      const limit = defaultDesignLimit(false, [sets / 2, sets])!;
+      expect(limit).toBeGreaterThanOrEqual(EXACT_SEARCH_MIN_DESIGNS);
+      // the limit is the largest count within the budget, unless the floor of designs applies
+      if (limit > EXACT_SEARCH_MIN_DESIGNS) {
+        expect(limit * sets).toBeLessThanOrEqual(EXACT_SEARCH_SETS);
+        expect((limit + 1) * sets).toBeGreaterThan(EXACT_SEARCH_SETS);
+      } else expect(EXACT_SEARCH_MIN_DESIGNS * sets).toBeGreaterThanOrEqual(EXACT_SEARCH_SETS);
+    }
+    // the small problems of these tests never reach it: the search runs to its end
+    const full = await recommend(problem(3), { workerUrl: null });
+    expect(full.designLimit).toBeUndefined();
   });
 });
