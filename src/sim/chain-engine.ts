@@ -78,13 +78,14 @@ export class ChainEngine {
     readonly model: SimModel,
     rngState: Uint32Array,
     readonly maxWaiting: number,
+    scratch?: Counters,
   ) {
     const n = model.n;
     this.rng = Uint32Array.from(rngState);
     this.queues = new Queues(n, false);
     this.counts = this.queues.span; // no gone items here: span = count
     this.headVal = new Float64Array(n).fill(Infinity);
-    this.counters = newCounters(n, model.m, 'arrivals');
+    this.counters = scratch ?? newCounters(n, model.m, 'arrivals');
     this.pairs = new Float64Array(n * n);
     this.baseCount = new Float64Array(n);
     this.baseWaited = new Float64Array(n);

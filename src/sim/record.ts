@@ -14,7 +14,8 @@ export interface ReplicationPlan {
   readonly timed: boolean;
   /**
    * Leave out the wait percentiles (NaN): they cost a fixed ~0.1 s per replication (a bisection
-   * over the histogram per class), which dominates the short runs of design scoring.
+   * over the histogram per class), which dominates the short runs of design scoring. The record
+   * then carries no histogram (`hist` empty) and the counters are reused (counters.ts).
    */
   readonly noQuantiles?: boolean;
 }

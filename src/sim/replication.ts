@@ -1,5 +1,5 @@
 import { ChainEngine } from './chain-engine.js';
-import type { Counters } from './counters.js';
+import { scratchCounters, type Counters } from './counters.js';
 import { waitQuantile } from './percentiles.js';
 import { QUANTILE_LEVELS, type ReplicationPlan, type ReplicationRecord } from './record.js';
 import type { SimModel } from './sim-model.js';
@@ -21,7 +21,9 @@ export function runReplication(
   progress?: (arrivals: number) => void,
 ): ReplicationRecord {
   const timed = plan.timed || model.impatient;
-  const engine = timed ? new TimedEngine(model, state, plan.maxWaiting) : new ChainEngine(model, state, plan.maxWaiting);
+  // a record without quantiles does not carry the histograms: the counters are this thread's scratch
+  const scratch = plan.noQuantiles === true ? scratchCounters(model.n, model.m, timed ? 'time' : 'arrivals') : undefined;
+  const engine = timed ? new TimedEngine(model, state, plan.maxWaiting, scratch) : new ChainEngine(model, state, plan.maxWaiting, scratch);
   const advance = (total: number): void => {
     for (let left = total; left > 0; ) {
       const step = Math.min(CHUNK, left);
@@ -59,7 +61,7 @@ function summarise(
   const abandonRate = new Float64Array(n);
   const abandonShare = new Float64Array(n);
   const waitQuantiles = new Float64Array((n + 1) * QUANTILE_LEVELS.length);
-  const totalHist = new Float64Array(bins);
+  const totalHist = new Float64Array(noQuantiles ? 0 : bins);
   let backlogTotal = 0;
   let waitSumAll = 0;
   let matchedAll = 0;
@@ -77,15 +79,19 @@ function summarise(
     abandonRate[k] = c.abandoned[k]! / duration;
     abandonShare[k] = c.arrivals[k]! > 0 ? c.abandoned[k]! / c.arrivals[k]! : NaN;
     abandonedAll += c.abandoned[k]!;
+    if (noQuantiles) continue;
     c.hist[k * bins] = c.immediate[k]!; // bin 0: matched on arrival
     for (let b = 0; b < bins; b++) totalHist[b] += c.hist[k * bins + b]!;
     QUANTILE_LEVELS.forEach((p, i) => {
-      waitQuantiles[k * QUANTILE_LEVELS.length + i] = noQuantiles ? NaN : waitQuantile(c.kind, c.hist, k * bins, bins, model.totalRate, p);
+      waitQuantiles[k * QUANTILE_LEVELS.length + i] = waitQuantile(c.kind, c.hist, k * bins, bins, model.totalRate, p);
     });
   }
-  QUANTILE_LEVELS.forEach((p, i) => {
-    waitQuantiles[n * QUANTILE_LEVELS.length + i] = noQuantiles ? NaN : waitQuantile(c.kind, totalHist, 0, bins, model.totalRate, p);
-  });
+  if (noQuantiles) waitQuantiles.fill(NaN);
+  else {
+    QUANTILE_LEVELS.forEach((p, i) => {
+      waitQuantiles[n * QUANTILE_LEVELS.length + i] = waitQuantile(c.kind, totalHist, 0, bins, model.totalRate, p);
+    });
+  }
   const matchRates = new Float64Array(m);
   for (let e = 0; e < m; e++) matchRates[e] = c.edgeMatches[e]! / duration;
   return {
@@ -104,7 +110,8 @@ function summarise(
     abandonRateTotal: abandonedAll / duration,
     abandonShare,
     abandonShareTotal: abandonedAll / arrivals,
-    hist: c.hist,
+    // without quantiles the counters are scratch, reused by the next replication: no histogram leaves
+    hist: noQuantiles ? new Float64Array(0) : c.hist,
     histKind: c.kind,
     histBins: bins,
   };

@@ -43,12 +43,13 @@ export class TimedEngine {
     readonly model: SimModel,
     rngState: Uint32Array,
     readonly maxWaiting: number,
+    scratch?: Counters,
   ) {
     this.rng = Uint32Array.from(rngState);
     this.counts = new Int32Array(model.n);
     this.headVal = new Float64Array(model.n).fill(Infinity);
     this.queues = new Queues(model.n, true);
-    this.counters = newCounters(model.n, model.m, 'time');
+    this.counters = scratch ?? newCounters(model.n, model.m, 'time');
   }
 
   startMeasuring(): void {
