@@ -117,6 +117,10 @@ export function naiveFcfm(d: PlainDesign, arrivals: number, replications: number
   return { mean, ci95: [mean - half, mean + half] };
 }
 
+interface Solver {
+  solve(lp: string): { Status: string; ObjectiveValue: number };
+}
+
 /** Stable by the edge-flow LP (HiGHS, called directly) and no bipartite component. */
 export async function stableByLp(d: PlainDesign): Promise<boolean> {
   const n = d.ids.length;
@@ -151,7 +155,8 @@ export async function stableByLp(d: PlainDesign): Promise<boolean> {
   }
   d.pairs.forEach((_, e) => rows.push(` g${e}: f${e} - t >= 0`));
   const lp = `Maximize\n obj: t\nSubject To\n${rows.join('\n')}\nBounds\n t <= 1e9\nEnd\n`;
-  const highs = await (await import('highs')).default();
-  const r = highs.solve(lp) as { Status: string; ObjectiveValue: number };
+  const m = (await import('highs')) as unknown as { default: (() => Promise<Solver>) | { default: () => Promise<Solver> } };
+  const highs = await (typeof m.default === 'function' ? m.default : m.default.default)();
+  const r = highs.solve(lp);
   return r.Status === 'Optimal' && r.ObjectiveValue > 1e-9;
 }
