@@ -11,7 +11,7 @@ import { asciiIds, asciiPair, asciiPairs } from './ascii-pairs.js';
 import { renderCsv, type CsvCell } from './machine.js';
 
 export function sensitivityCsv(r: SensitivityRecord): string {
-  const head = ['change', 'pair', 'allowed', 'rule', 'price', 'stable', 'backlog', 'delta', 'deltaPerPrice', 'verdict', 'predicted', 'relation'];
+  const head = ['change', 'pair', 'allowed', 'rule', 'price', 'stable', 'backlog', 'delta', 'deltaPerPrice', 'verdict', 'predicted', 'relation', 'method', 'deltaLow', 'deltaHigh', 'significant'];
   const rows: CsvCell[][] = [...r.additions, ...r.removals].map((c) => [
     c.change,
     asciiPair(c.pair),
@@ -25,6 +25,10 @@ export function sensitivityCsv(r: SensitivityRecord): string {
     c.verdict,
     c.predicted,
     c.relation,
+    c.method,
+    c.deltaCi95?.[0] ?? null,
+    c.deltaCi95?.[1] ?? null,
+    c.significant ?? null,
   ]);
   return renderCsv(head, rows, r.precision);
 }
