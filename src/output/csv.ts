@@ -38,10 +38,12 @@ export const pairsCell = asciiPairs;
 
 /** step,factor,headroomUsed,design,stable,backlog,spareCapacity,bottleneck — one row per step and design. */
 export function sweepCsv(r: SweepRecord): string {
-  const head = ['step', 'factor', 'headroomUsed', 'design', 'stable', 'backlog', 'spareCapacity', 'bottleneck'];
+  const head = ['step', 'factor', 'headroomUsed', 'design', 'stable', 'backlog', 'spareCapacity', 'bottleneck', 'method', 'backlogLow', 'backlogHigh'];
   const rows: CsvCell[][] = [];
   for (const c of r.curves) {
-    c.points.forEach((p, t) => rows.push([t, p.factor, r.steps[t]!.headroomUsed, c.name, p.stable, p.backlog, p.spareCapacity, asciiIds(p.bottleneck)]));
+    c.points.forEach((p, t) =>
+      rows.push([t, p.factor, r.steps[t]!.headroomUsed, c.name, p.stable, p.backlog, p.spareCapacity, asciiIds(p.bottleneck), p.method, p.backlogCi95?.[0] ?? null, p.backlogCi95?.[1] ?? null]),
+    );
   }
   return renderCsv(head, rows, r.precision);
 }
