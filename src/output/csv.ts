@@ -70,7 +70,7 @@ export function recommendCsv(r: RecommendRecord): string {
 export const COMPARE_CSV_HEADER = [
   'source', 'scenario', 'budget', 'stable', 'bottleneck', 'bottleneckSpareCapacity', 'backlog', 'worstWaitClass', 'worstWait',
   'recommendedCost', 'recommendedAdded', 'recommendedRemoved', 'recommendedBacklog', 'recommendedMaxWait', 'recommendedWorstBacklog', 'recommendedWorstUnder',
-  'robustCost', 'robustAdded', 'robustRemoved', 'robustWorstBacklog', 'robustWorstUnder', 'note',
+  'robustCost', 'robustAdded', 'robustRemoved', 'robustWorstBacklog', 'robustWorstUnder', 'note', 'method', 'recommendedMethod',
 ] as const;
 
 /** A header line, then one line per column of the comparison. */
@@ -86,6 +86,7 @@ export function compareCsv(r: CompareRecord): string {
       b ? (b.worstBacklog ?? 'unstable') : null, b?.worstUnder ?? null,
       s?.cost ?? null, s ? asciiPairs(s.added) : null, s ? asciiPairs(s.removed) : null, s ? (s.worstBacklog ?? 'unstable') : null, s?.worstUnder ?? null,
       c.note ?? c.instability?.message ?? null,
+      c.method, b?.method ?? null,
     ];
   });
   return renderCsv(COMPARE_CSV_HEADER, rows);

@@ -19,6 +19,8 @@ import type { Score, ScoreMethod, ScoreSpec } from '../design/scoring/score.js';
 import { pairedDifference, reportPlan, type Interval, type PairedDifference, type SimPlan } from '../design/scoring/sim-score.js';
 import { createScorer, workerScriptUrl } from '../design/scoring/scorer.js';
 import type { ScenarioContext } from './context.js';
+import { evaluateOrExplain, outcomeOf, type Outcome, type OutcomeScorer } from './outcomes.js';
+import { checkStability } from '../stability/check.js';
 import { impatientClasses } from './warnings.js';
 
 export interface ScoringInput {
@@ -174,4 +176,25 @@ export function pairedVs(a: Score, b: Score): PairedDifference {
 export function simulatedWaits(s: Score, rates: ArrayLike<number>): Float64Array | null {
   if (!s.stable || !s.backlog) return null;
   return Float64Array.from(s.backlog, (b, k) => b / rates[k]!);
+}
+
+/**
+ * The outcome scorer of one method: exact (evaluateOrExplain with the input's guard; TooLargeError
+ * past it) or simulated with the input's plan. Choose the method with byScoring.
+ */
+export function outcomeScorer(ctx: ScenarioContext, input: ScoringInput, method: 'exact' | 'simulation'): OutcomeScorer {
+  const unit = ctx.scenario.timeUnit;
+  if (method === 'exact') return async (m) => outcomeOf(m, evaluateOrExplain(m, unit, input.maxSets === undefined ? {} : { maxSets: input.maxSets }));
+  const plan = scoringPlan(ctx, input);
+  const patience = patienceOf(ctx);
+  return async (m): Promise<Outcome> => {
+    const none: Outcome = { stable: false, backlog: null, maxWait: null, maxWaitClass: null, method: 'simulation' };
+    if (!checkStability(m).stable) return none;
+    const [s] = await simulateDesigns(m.ids, m.rates, [pairsOf(m)], plan, input, patience);
+    const waits = simulatedWaits(s!, m.rates);
+    if (!waits) return none;
+    let k = 0;
+    for (let i = 1; i < m.n; i++) if (waits[i]! > waits[k]!) k = i;
+    return { stable: true, backlog: s!.backlogTotal, maxWait: waits[k]!, maxWaitClass: m.ids[k]!, method: 'simulation', backlogCi95: backlogInterval(s!) };
+  };
 }
