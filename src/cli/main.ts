@@ -67,6 +67,15 @@ function scenarioFlags(c: Command, { budget = false, design = true, csv = false 
   return c;
 }
 
+/** --score, --seed, --max-sets (and --jobs) of the commands that score designs (src/usecases/scoring.ts). */
+function scoringFlags(c: Command, jobs: string | null): Command {
+  c.option('--score <method>', 'exact | simulation | auto (default): exact where feasible and no patience, else simulated with 95 % intervals');
+  c.option('--seed <s>', 'seed of the simulation streams when figures are simulated (default 1)');
+  c.addOption(new Option('--max-sets <n>', 'memory guard of the exact evaluation (independent sets per design)').argParser(Number));
+  if (jobs !== null) c.option('--jobs <j>', jobs);
+  return c;
+}
+
 const program = new Command();
 program
   .name('edgewise')
@@ -101,12 +110,11 @@ scenarioFlags(program.command('simulate').description('simulate a matching polic
   .option('--wait-unit <unit>', 'show waits in this unit (default: automatic)')
   .action((file: string, opts: Record<string, unknown>) => action('simulate', async () => (await import('./commands/simulate.js')).simulateCommand)({ ...opts, file }));
 
-scenarioFlags(program.command('sensitivity').description('exact effect of every single change, with the rules that allow it, flagged and explained'), { csv: true })
+scoringFlags(scenarioFlags(program.command('sensitivity').description('effect of every single change (exact, or simulated with intervals), with the rules that allow it, flagged and explained'), { csv: true }), 'worker threads of the simulated scoring (default 1); the output does not depend on it')
   .option('--all-pairs', 'try every absent pair (self-pairs included), not only the candidates')
-  .addOption(new Option('--max-sets <n>', 'memory guard: refuse above this many independent sets (about 200 bytes each)').argParser(Number))
   .action((file: string, opts: Record<string, unknown>) => action('sensitivity', async () => (await import('./commands/sensitivity.js')).sensitivityCommand)({ ...opts, file }));
 
-scenarioFlags(program.command('sweep').description('grow some classes to the stability limit: exact backlog of the design and of variants, crossovers'), { csv: true })
+scoringFlags(scenarioFlags(program.command('sweep').description('grow some classes to the stability limit: backlog of the design and of variants (exact or simulated), crossovers'), { csv: true }), 'worker threads of the simulated scoring (default 1); the output does not depend on it')
   .requiredOption('--grow <classes>', 'comma-separated class ids whose rates grow together (a %2C inside an id)')
   .option('--with <pairs>', 'a variant adding compatibilities, e.g. a~b or a~b,c~d (repeatable: one variant each)', collect)
   .option('--without <pairs>', 'a variant removing compatibilities (repeatable: one variant each)', collect)
@@ -126,8 +134,8 @@ scenarioFlags(program.command('recommend').description('budgeted design: the Par
   .option('--pick <k>', 'with --save: the K-th design of the Pareto set (cheapest first) instead of the recommended one')
   .action((file: string, opts: Record<string, unknown>) => action('recommend', async () => (await import('./commands/recommend.js')).recommendCommand)({ ...opts, file }));
 
-program
-  .command('compare')
+scoringFlags(program
+  .command('compare'), null)
   .description('side by side: one column per scenario (or per budget): stability, backlog, the recommended design, the robust choice')
   .argument('<files...>', 'scenario files (JSON)')
   .option('--budgets <list>', 'budgets to compare, e.g. 50,100,200 (one column per scenario and budget)')
@@ -137,14 +145,15 @@ program
   .option('--json', 'machine-readable output (JSON)')
   .option('--csv', 'one CSV line per column')
   .option('--wide', 'text: one table with every column, whatever the terminal width')
-  .option('--jobs <n>', 'columns evaluated at once')
+  .option('--jobs <n>', 'columns evaluated at once (default 2)')
+  .option('--max-designs <n>', 'designs the recommender of each column may score (as recommend)')
   .action((files: string[], opts: Record<string, unknown>) => action('compare', async () => (await import('./commands/compare.js')).compareCommand)({ ...opts, files }));
 
-scenarioFlags(program.command('report').description('one self-contained HTML report: the decision, the graph, cost against waiting, waits, load sweep, single changes, demand futures, inputs'), { budget: true })
+scoringFlags(scenarioFlags(program.command('report').description('one self-contained HTML report: the decision, the graph, cost against waiting, waits, load sweep, single changes, demand futures, inputs'), { budget: true }), null)
   .requiredOption('-o, --output <file>', 'HTML file to write, e.g. report.html')
   .option('--rate-intervals', 'add the demand variants "fitted low" and "fitted high" from the classes\' fitted rate intervals (rateCi95)')
-  .option('--jobs <n>', 'worker threads of the recommender')
-  .option('--seed <s>', 'seed of the simulated figures shown when classes have patience (default 1)')
+  .option('--jobs <n>', 'worker threads of the recommender and of the simulated scoring (default 1)')
+  .option('--max-designs <n>', 'designs the recommender may score (default 600 when designs are simulated)')
   .action((file: string, opts: Record<string, unknown>) => action('report', async () => (await import('./commands/report.js')).reportCommand)({ ...opts, file }));
 
 program

@@ -42,3 +42,29 @@ export function scoreMethod(value: unknown): 'exact' | 'simulation' | 'auto' {
   if (value === 'exact' || value === 'simulation' || value === 'auto') return value;
   throw new UsageError(`--score must be one of exact, simulation, auto, got ${JSON.stringify(value)}`);
 }
+
+/** The scoring flags of the commands that score designs (sensitivity, sweep, compare, report). */
+export interface ScoringFlags {
+  readonly score?: string;
+  readonly seed?: number | string;
+  readonly maxSets?: number;
+  readonly jobs?: number | string;
+}
+
+/**
+ * `--score`, `--seed`, `--max-sets`, `--jobs` checked in one place (default auto, seed 1, jobs
+ * `jobsDefault`): the scoring input of src/usecases/scoring.ts.
+ */
+export function scoringOptions(
+  opts: ScoringFlags,
+  jobsDefault = 1,
+  jobsMax = 256,
+): { score: 'exact' | 'simulation' | 'auto'; seed: number; jobs: number; maxSets?: number } {
+  checkMaxSets(opts.maxSets);
+  return {
+    score: scoreMethod(opts.score),
+    seed: wholeNumber(opts.seed, '--seed', 0, 1),
+    jobs: wholeNumber(opts.jobs, '--jobs', 1, jobsDefault, jobsMax),
+    ...(opts.maxSets === undefined ? {} : { maxSets: opts.maxSets }),
+  };
+}

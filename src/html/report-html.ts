@@ -219,7 +219,7 @@ function waitSection(r: ReportRecord, name: Namer): Markup {
   const chart = waitChart({ classes: r.classes.map((c) => ({ label: name(c.id) })), series, timeUnit: r.timeUnit });
   const sim = r.simulated.length > 0 ? simulatedTable(r, name) : '';
   return html`<p class="explain">Mean time an arrival of each class waits before it is matched, in ${plural(r.timeUnit)}.${unstable.length > 0 ? ` ${listWords(unstable.map((d) => d.name))}: not shown, because waits grow without bound.` : ''}</p>
-${r.designs.length > 0 ? figure('chart-waits', chart, `Mean wait per class (${plural(r.timeUnit)}), exact, items assumed patient.`) : ''}
+${r.designs.length > 0 ? figure('chart-waits', chart, r.designs.some((d) => d.figures.method === 'simulation') ? `Mean wait per class (${plural(r.timeUnit)}), simulated (95 % intervals in the JSON record)${r.inputs.classes.some((c) => c.patience !== null) ? ', items giving up included' : ''}.` : `Mean wait per class (${plural(r.timeUnit)}), exact, items assumed patient.`) : ''}
 ${sim}`;
 }
 
@@ -262,7 +262,7 @@ function sweepSection(r: ReportRecord, name: Namer): Markup {
     loadLabel: `Demand of ${grow} (× today)`,
     itemWord: r.itemWord,
   });
-  return html`<p class="explain">What happens if the tightest group, ${grow}, grows while every other class stays as today. Each curve is exact; a curve ends where that design can no longer keep up.${s.crossovers.length > 0 ? ' Where two curves cross, a change that helps at today’s demand starts to hurt, or the other way round.' : ''}</p>
+  return html`<p class="explain">What happens if the tightest group, ${grow}, grows while every other class stays as today. ${s.method === 'simulation' ? 'Each curve is simulated (95 % intervals in the JSON record; a crossover is bracketed between two steps)' : 'Each curve is exact'}; a curve ends where that design can no longer keep up.${s.crossovers.length > 0 ? ' Where two curves cross, a change that helps at today’s demand starts to hurt, or the other way round.' : ''}</p>
 ${figure('chart-sweep', chart, `Mean number of ${r.itemWord} waiting as the demand of ${grow} grows.`)}`;
 }
 

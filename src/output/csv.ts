@@ -11,7 +11,7 @@ import { asciiIds, asciiPair, asciiPairs } from './ascii-pairs.js';
 import { renderCsv, type CsvCell } from './machine.js';
 
 export function sensitivityCsv(r: SensitivityRecord): string {
-  const head = ['change', 'pair', 'allowed', 'rule', 'price', 'stable', 'backlog', 'delta', 'deltaPerPrice', 'verdict', 'predicted', 'relation'];
+  const head = ['change', 'pair', 'allowed', 'rule', 'price', 'stable', 'backlog', 'delta', 'deltaPerPrice', 'verdict', 'predicted', 'relation', 'method', 'deltaLow', 'deltaHigh', 'significant'];
   const rows: CsvCell[][] = [...r.additions, ...r.removals].map((c) => [
     c.change,
     asciiPair(c.pair),
@@ -25,6 +25,10 @@ export function sensitivityCsv(r: SensitivityRecord): string {
     c.verdict,
     c.predicted,
     c.relation,
+    c.method,
+    c.deltaCi95?.[0] ?? null,
+    c.deltaCi95?.[1] ?? null,
+    c.significant ?? null,
   ]);
   return renderCsv(head, rows, r.precision);
 }
@@ -34,10 +38,12 @@ export const pairsCell = asciiPairs;
 
 /** step,factor,headroomUsed,design,stable,backlog,spareCapacity,bottleneck — one row per step and design. */
 export function sweepCsv(r: SweepRecord): string {
-  const head = ['step', 'factor', 'headroomUsed', 'design', 'stable', 'backlog', 'spareCapacity', 'bottleneck'];
+  const head = ['step', 'factor', 'headroomUsed', 'design', 'stable', 'backlog', 'spareCapacity', 'bottleneck', 'method', 'backlogLow', 'backlogHigh'];
   const rows: CsvCell[][] = [];
   for (const c of r.curves) {
-    c.points.forEach((p, t) => rows.push([t, p.factor, r.steps[t]!.headroomUsed, c.name, p.stable, p.backlog, p.spareCapacity, asciiIds(p.bottleneck)]));
+    c.points.forEach((p, t) =>
+      rows.push([t, p.factor, r.steps[t]!.headroomUsed, c.name, p.stable, p.backlog, p.spareCapacity, asciiIds(p.bottleneck), p.method, p.backlogCi95?.[0] ?? null, p.backlogCi95?.[1] ?? null]),
+    );
   }
   return renderCsv(head, rows, r.precision);
 }
@@ -64,7 +70,7 @@ export function recommendCsv(r: RecommendRecord): string {
 export const COMPARE_CSV_HEADER = [
   'source', 'scenario', 'budget', 'stable', 'bottleneck', 'bottleneckSpareCapacity', 'backlog', 'worstWaitClass', 'worstWait',
   'recommendedCost', 'recommendedAdded', 'recommendedRemoved', 'recommendedBacklog', 'recommendedMaxWait', 'recommendedWorstBacklog', 'recommendedWorstUnder',
-  'robustCost', 'robustAdded', 'robustRemoved', 'robustWorstBacklog', 'robustWorstUnder', 'note',
+  'robustCost', 'robustAdded', 'robustRemoved', 'robustWorstBacklog', 'robustWorstUnder', 'note', 'method', 'recommendedMethod',
 ] as const;
 
 /** A header line, then one line per column of the comparison. */
@@ -80,6 +86,7 @@ export function compareCsv(r: CompareRecord): string {
       b ? (b.worstBacklog ?? 'unstable') : null, b?.worstUnder ?? null,
       s?.cost ?? null, s ? asciiPairs(s.added) : null, s ? asciiPairs(s.removed) : null, s ? (s.worstBacklog ?? 'unstable') : null, s?.worstUnder ?? null,
       c.note ?? c.instability?.message ?? null,
+      c.method, b?.method ?? null,
     ];
   });
   return renderCsv(COMPARE_CSV_HEADER, rows);

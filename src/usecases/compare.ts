@@ -6,12 +6,13 @@
  * Columns are computed concurrently (p-limit).
  */
 import pLimit from 'p-limit';
-import { InfeasibleDesignError, TooLargeError } from '../errors.js';
+import { InfeasibleDesignError, TooLargeError, UsageError } from '../errors.js';
 import { checkStability } from '../stability/check.js';
 import { certificateWithIds } from '../stability/certificate.js';
 import type { ScenarioContext } from './context.js';
 import { instabilityOf } from './instability.js';
-import { evaluateOrExplain, outcomeOf, outcomesUnder, worstCase, type Outcome } from './outcomes.js';
+import { outcomesUnderWith, worstCase, type Outcome, type OutcomeScorer } from './outcomes.js';
+import { byScoring, outcomeScorer, patienceOf, simulationRecord, simulationWarning, type ScoringInput, type ScoringRecord } from './scoring.js';
 import { recommendUseCase, type RecommendInput } from './recommend.js';
 import { idsOf, type InstabilityRecord, type PairIds, type Reference } from './records.js';
 import { patienceWarning } from './warnings.js';
@@ -20,8 +21,11 @@ export interface DesignSummary {
   readonly added: PairIds[];
   readonly removed: PairIds[];
   readonly cost: number;
+  /** How its figures under the column's rates were made (those of `recommend`). */
+  readonly method: 'exact' | 'simulation';
   /** Under the column's rates. */
   readonly backlog: number | null;
+  readonly backlogCi95?: [number, number];
   readonly maxWait: number | null;
   /** Worst total backlog over the column's rates and every variant (null: unstable under one). */
   readonly worstBacklog: number | null;
@@ -29,7 +33,7 @@ export interface DesignSummary {
   readonly worstUnder: string;
 }
 
-export interface CompareColumn {
+export interface CompareColumn extends ScoringRecord {
   readonly source: string;
   readonly scenario: string;
   readonly timeUnit: string;
@@ -41,6 +45,8 @@ export interface CompareColumn {
   readonly bottleneck: { readonly set: string[]; readonly spareCapacity: number } | null;
   /** Mean total backlog of the reference design (null when unstable). */
   readonly backlog: number | null;
+  /** Simulated: its 95 % interval. */
+  readonly backlogCi95?: [number, number] | null;
   readonly worstWait: { readonly class: string; readonly wait: number } | null;
   /** The reference design under each variant. */
   readonly underVariants: Array<{ readonly variant: string } & Outcome>;
@@ -64,6 +70,8 @@ export interface CompareRecord {
 export interface CompareInput {
   readonly columns: ReadonlyArray<{ readonly ctx: ScenarioContext; readonly budget?: number }>;
   readonly recommend: Omit<RecommendInput, 'objective'> & { readonly objective?: RecommendInput['objective'] };
+  /** How the columns' own figures are scored (today's design, every design under the variants); recommend gets the same. */
+  readonly scoring?: ScoringInput;
   /** Columns computed at once. */
   readonly concurrency: number;
 }
@@ -74,23 +82,52 @@ async function column(ctx: ScenarioContext, input: CompareInput): Promise<Compar
   const variants = ctx.variants;
   const names = variants.map((v) => v.name);
   const stability = checkStability(model);
-  const today = outcomeOf(model, evaluateOrExplain(model, unit));
-  const underVariants = outcomesUnder(model, [], [], variants, unit).map((o, k) => ({ variant: names[k]!, ...o }));
+  const scoring: ScoringInput = { ...input.scoring, workerUrl: null };
+  // one method for the column's own figures: today's design and every design under the variants
+  let scorer: OutcomeScorer = outcomeScorer(ctx, scoring, 'exact');
+  let scored: ScoringRecord = { method: 'exact' };
+  const first = await byScoring(
+    ctx,
+    scoring,
+    async () => {
+      const today = await scorer(model);
+      return { today, under: await outcomesUnderWith(scorer, model, [], [], variants) };
+    },
+    async (reason) => {
+      scorer = outcomeScorer(ctx, scoring, 'simulation');
+      scored = simulationRecord(ctx, scoring, reason);
+      const today = await scorer(model);
+      return { today, under: await outcomesUnderWith(scorer, model, [], [], variants) };
+    },
+  );
+  const today = first.today;
+  const underVariants = first.under.map((o, k) => ({ variant: names[k]!, ...o }));
   let recommended: DesignSummary | null = null;
   let robust: DesignSummary | null = null;
   let note: string | null = null;
   let frontSize = 0;
   try {
-    const rec = await recommendUseCase(ctx, { objective: 'total', jobs: 1, workerUrl: null, ...input.recommend } as RecommendInput);
+    const patience = input.scoring?.score !== undefined && input.scoring.score !== 'exact' ? patienceOf(ctx) : undefined;
+    const rec = await recommendUseCase(ctx, {
+      objective: 'total',
+      jobs: 1,
+      workerUrl: null,
+      ...(input.scoring?.score ? { score: input.scoring.score } : {}),
+      ...(input.scoring?.seed !== undefined ? { seed: input.scoring.seed } : {}),
+      ...(input.scoring?.maxSets !== undefined ? { maxSets: input.scoring.maxSets } : {}),
+      ...(patience ? { patience } : {}),
+      ...input.recommend,
+    } as RecommendInput);
     frontSize = rec.pareto.length;
-    const summary = (d: { added: PairIds[]; removed: PairIds[]; cost: number; backlog: number | null; maxWait: number | null }): DesignSummary => {
-      const base: Outcome = { stable: d.backlog !== null, backlog: d.backlog, maxWait: d.maxWait, maxWaitClass: null };
-      const w = worstCase(base, outcomesUnder(ctx.today, d.added, d.removed, variants, unit), names);
-      return { added: d.added, removed: d.removed, cost: d.cost, backlog: d.backlog, maxWait: d.maxWait, worstBacklog: w.backlog, worstUnder: w.under };
+    const summary = async (d: { added: PairIds[]; removed: PairIds[]; cost: number; backlog: number | null; backlogCi95?: [number, number]; maxWait: number | null; method: 'exact' | 'simulation' }): Promise<DesignSummary> => {
+      const base: Outcome = { stable: d.backlog !== null, backlog: d.backlog, maxWait: d.maxWait, maxWaitClass: null, method: d.method };
+      const w = worstCase(base, await outcomesUnderWith(scorer, ctx.today, d.added, d.removed, variants), names);
+      return { added: d.added, removed: d.removed, cost: d.cost, method: d.method, backlog: d.backlog, ...(d.backlogCi95 ? { backlogCi95: d.backlogCi95 } : {}), maxWait: d.maxWait, worstBacklog: w.backlog, worstUnder: w.under };
     };
-    recommended = summary(rec.recommended);
+    recommended = await summary(rec.recommended);
     if (variants.length > 0) {
-      const all = rec.pareto.map(summary);
+      const all: DesignSummary[] = [];
+      for (const d of rec.pareto) all.push(await summary(d));
       robust = all.reduce((r, s) => {
         const a = s.worstBacklog ?? Infinity;
         const b = r.worstBacklog ?? Infinity;
@@ -99,11 +136,14 @@ async function column(ctx: ScenarioContext, input: CompareInput): Promise<Compar
     }
   } catch (e) {
     if (e instanceof InfeasibleDesignError) note = e.message;
+    else if (e instanceof UsageError) throw e;
     else if (e instanceof TooLargeError) note = `the recommender could not evaluate every design: ${e.message}`;
     else throw e;
   }
   const b = stability.bottleneck;
+  const simNote = simulationWarning(scored);
   return {
+    ...scored,
     source: ctx.source,
     scenario: ctx.scenario.name,
     timeUnit: unit,
@@ -114,6 +154,7 @@ async function column(ctx: ScenarioContext, input: CompareInput): Promise<Compar
     instability: stability.stable ? null : await instabilityOf(ctx, certificateWithIds(model, stability.certificate!)),
     bottleneck: b ? { set: idsOf(model, b.set), spareCapacity: b.slack } : null,
     backlog: today.backlog,
+    ...(today.backlogCi95 !== undefined ? { backlogCi95: today.backlogCi95 } : {}),
     worstWait: today.stable ? { class: today.maxWaitClass!, wait: today.maxWait! } : null,
     underVariants,
     recommended,
@@ -121,7 +162,10 @@ async function column(ctx: ScenarioContext, input: CompareInput): Promise<Compar
     note,
     variants: names,
     frontSize,
-    warnings: [patienceWarning(ctx, `The figures of ${ctx.source}`)].filter((w): w is string => w !== null),
+    warnings: [
+      simNote ? `${ctx.source}: ${simNote}` : patienceWarning(ctx, `The figures of ${ctx.source}`),
+      recommended && recommended.method !== scored.method ? `${ctx.source}: the recommended design's figures are ${recommended.method === 'simulation' ? 'simulated' : 'exact'} (the recommender's), today's are ${scored.method === 'simulation' ? 'simulated' : 'exact'}.` : null,
+    ].filter((w): w is string => w !== null),
   };
 }
 

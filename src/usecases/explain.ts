@@ -13,7 +13,8 @@ const short = (x: number): string => (Number.isFinite(x) ? num(x) : x > 0 ? '∞
 const braces = (names: readonly string[]): string => setText(names);
 
 /** Sentence for one entry (see the file comment). */
-export function explainEntry(model: CompiledModel, e: SensitivityEntry, bottlenecks: readonly Bottleneck[], timeUnit: string): string {
+/** `lead` replaces the exact verdict's words (a simulated verdict gives its own). */
+export function explainEntry(model: CompiledModel, e: SensitivityEntry, bottlenecks: readonly Bottleneck[], timeUnit: string, lead?: string): string {
   const id = (k: number): string => model.ids[k]!;
   const what = e.a === e.b ? `${id(e.a)} with ${id(e.a)}` : `${id(e.a)} and ${id(e.b)}`;
   let exact: string;
@@ -21,6 +22,7 @@ export function explainEntry(model: CompiledModel, e: SensitivityEntry, bottlene
   else if (!e.stable) exact = 'exact: breaks stability';
   else if (e.kind === 'add') exact = e.harmful ? `exact: harmful, backlog +${short(e.delta)}` : e.delta < 0 ? `exact: helps, backlog ${short(e.delta)}` : 'exact: no change in backlog';
   else exact = e.beneficial ? (e.delta < 0 ? `exact: beneficial, backlog ${short(e.delta)}` : 'exact: beneficial, same backlog and a saving') : `exact: backlog +${short(e.delta)}`;
+  if (lead !== undefined) exact = lead;
   if (bottlenecks.length === 0) return `${exact}; no bottleneck to compare with`;
   const u = perUnit(timeUnit);
   const named = (b: Bottleneck): string => `the bottleneck ${braces(Array.from(b.set, id))} (spare capacity ${short(b.slack)}${u})`;

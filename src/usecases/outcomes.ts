@@ -21,7 +21,14 @@ export interface Outcome {
   /** Largest class mean wait and its class (null when unstable). */
   readonly maxWait: number | null;
   readonly maxWaitClass: string | null;
+  /** How the figures were made. */
+  readonly method: 'exact' | 'simulation';
+  /** Simulated: 95 % interval of the backlog. */
+  readonly backlogCi95?: [number, number] | null;
 }
+
+/** Scores one compiled design (its own rates) into an outcome: exact, or simulated (src/usecases/scoring.ts). */
+export type OutcomeScorer = (model: CompiledModel) => Promise<Outcome>;
 
 /** Today's model with `added` pairs appended and `removed` pairs left out (edge order: kept, then added). */
 export function changedModel(today: CompiledModel, added: readonly PairIds[], removed: readonly PairIds[], rates: ArrayLike<number> = today.rates): CompiledModel {
@@ -53,10 +60,10 @@ export function evaluateOrExplain(model: CompiledModel, timeUnit: string, option
 }
 
 export function outcomeOf(model: CompiledModel, e: Evaluated): Outcome {
-  if (!e.stable) return { stable: false, backlog: null, maxWait: null, maxWaitClass: null };
+  if (!e.stable) return { stable: false, backlog: null, maxWait: null, maxWaitClass: null, method: 'exact' };
   let k = 0;
   for (let i = 1; i < model.n; i++) if (e.result.wait[i]! > e.result.wait[k]!) k = i;
-  return { stable: true, backlog: e.result.backlogTotal, maxWait: e.result.wait[k]!, maxWaitClass: model.ids[k]! };
+  return { stable: true, backlog: e.result.backlogTotal, maxWait: e.result.wait[k]!, maxWaitClass: model.ids[k]!, method: 'exact' };
 }
 
 /** The outcome of a design (given by changes) under each variant's rates. */
@@ -65,6 +72,13 @@ export function outcomesUnder(today: CompiledModel, added: readonly PairIds[], r
     const m = changedModel(today, added, removed, v.rates);
     return outcomeOf(m, evaluateOrExplain(m, timeUnit, options));
   });
+}
+
+/** As outcomesUnder, with the given scorer (exact or simulated), in variant order. */
+export async function outcomesUnderWith(score: OutcomeScorer, today: CompiledModel, added: readonly PairIds[], removed: readonly PairIds[], variants: readonly DemandVariant[]): Promise<Outcome[]> {
+  const out: Outcome[] = [];
+  for (const v of variants) out.push(await score(changedModel(today, added, removed, v.rates)));
+  return out;
 }
 
 /** The worst backlog over today's rates and every variant, and where (null backlog: unstable there). */

@@ -13,7 +13,9 @@ import { pairRules, recordBase, scenarioContext, type ScenarioContext } from './
 import { designFigures, type DesignFigures } from './designs.js';
 import { designDetails } from '../design/search/recommend.js';
 import { instabilityOf } from './instability.js';
-import { evaluateOrExplain, outcomesUnder, type Outcome } from './outcomes.js';
+import { evaluateOrExplain, outcomesUnderWith, type Outcome, type OutcomeScorer } from './outcomes.js';
+import { byScoring, outcomeScorer, patienceOf, scoringPlan, simulationRecord, type ScoringInput, type ScoringRecord } from './scoring.js';
+import { simulateDesign } from '../design/scoring/sim-score.js';
 import { recommendUseCase, type RecommendInput, type RecommendRecord } from './recommend.js';
 import { pairIds, setRecord, type InstabilityRecord, type PairIds, type RecordBase, type SetRecord } from './records.js';
 import { simulateUseCase, type SimulateRecord } from './simulate.js';
@@ -57,7 +59,7 @@ export interface InputsRecord {
   readonly demand: Array<{ readonly name: string; readonly rates: Record<string, number> }>;
 }
 
-export interface ReportRecord extends RecordBase {
+export interface ReportRecord extends RecordBase, ScoringRecord {
   readonly command: 'report';
   readonly description: string | null;
   readonly costUnit: string | null;
@@ -82,10 +84,12 @@ export interface ReportRecord extends RecordBase {
   readonly notes: string[];
 }
 
-export interface ReportInput {
+export interface ReportInput extends Omit<ScoringInput, 'jobs' | 'seed'> {
   readonly objective?: ObjectiveName;
   readonly jobs: number;
   readonly seed: number;
+  /** Designs the recommender may score (default REPORT_SIMULATED_DESIGNS when designs are simulated). */
+  readonly maxDesigns?: number;
   readonly sweepSteps?: number;
   readonly onPhase?: (phase: string) => void;
   /** Arrivals per replication of the simulated figures (patience). */
@@ -140,6 +144,9 @@ function simulatedSummary(role: 'today' | 'recommended', r: SimulateRecord): Sim
   };
 }
 
+/** The recommender's design limit in a report when designs are simulated (a report also sweeps and shows designs). */
+export const REPORT_SIMULATED_DESIGNS = 600;
+
 export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): Promise<ReportRecord> {
   const phase = input.onPhase ?? ((): void => {});
   const unit = ctx.scenario.timeUnit;
@@ -148,14 +155,48 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
 
   phase('today');
   const stability = checkStability(ctx.today);
-  const todayEval = evaluateOrExplain(ctx.today, unit);
+  const scoring: ScoringInput = { ...input, ...(input.jobs > 1 ? {} : { workerUrl: null }) };
+  // one method for the report's own figures (today's match rates, every shown design under the variants)
+  let scorer: OutcomeScorer = outcomeScorer(ctx, scoring, 'exact');
+  let scored: ScoringRecord = { method: 'exact' };
+  const todayRates = await byScoring(
+    ctx,
+    scoring,
+    () => {
+      const e = evaluateOrExplain(ctx.today, unit, input.maxSets === undefined ? {} : { maxSets: input.maxSets });
+      return e.stable ? Array.from(e.result.matchRates) : null;
+    },
+    async (reason) => {
+      scorer = outcomeScorer(ctx, scoring, 'simulation');
+      scored = simulationRecord(ctx, scoring, reason);
+      if (!stability.stable) return null;
+      try {
+        return Array.from(simulateDesign(ctx.today, scoringPlan(ctx, scoring), patienceOf(ctx)).matchRates);
+      } catch (e) {
+        if (e instanceof TooLargeError) return null;
+        throw e;
+      }
+    },
+  );
   const todayInstability = stability.stable ? null : await instabilityOf(ctx, certificateWithIds(ctx.today, stability.certificate!));
 
   phase('recommend');
   let decision: RecommendRecord | null = null;
   let noDecision: string | null = null;
   try {
-    decision = await recommendUseCase(ctx, { objective: input.objective ?? 'total', jobs: input.jobs, seed: 1, ...(input.jobs > 1 ? {} : { workerUrl: null }) } as RecommendInput);
+    const score = input.score ?? 'exact';
+    const simulatedSearch = score === 'simulation' || scored.method === 'simulation';
+    const maxDesigns = input.maxDesigns ?? (simulatedSearch ? REPORT_SIMULATED_DESIGNS : undefined);
+    decision = await recommendUseCase(ctx, {
+      objective: input.objective ?? 'total',
+      jobs: input.jobs,
+      seed: input.seed,
+      score,
+      ...(score !== 'exact' && ctx.patience ? { patience: patienceOf(ctx) } : {}),
+      ...(input.maxSets === undefined ? {} : { maxSets: input.maxSets }),
+      ...(maxDesigns === undefined ? {} : { maxDesigns }),
+      ...(input.jobs > 1 ? {} : { workerUrl: null }),
+    } as RecommendInput);
   } catch (e) {
     if (e instanceof InfeasibleDesignError) noDecision = e.message;
     else if (e instanceof TooLargeError) noDecision = `the recommender could not evaluate every design: ${e.message}`;
@@ -164,18 +205,18 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
 
   phase('designs');
   const designs: ShownDesign[] = [];
-  const show = (role: ShownDesign['role'], name: string, figures: DesignFigures): void => {
-    designs.push({ role, name, figures, underVariants: outcomesUnder(ctx.today, figures.added, figures.removed, ctx.variants, unit) });
+  const show = async (role: ShownDesign['role'], name: string, figures: DesignFigures): Promise<void> => {
+    designs.push({ role, name, figures, underVariants: await outcomesUnderWith(scorer, ctx.today, figures.added, figures.removed, ctx.variants) });
   };
   if (decision) {
-    show('today', "today's design", decision.today);
-    if (decision.recommended.added.length + decision.recommended.removed.length > 0) show('recommended', 'the recommended design', decision.recommended);
+    await show('today', "today's design", decision.today);
+    if (decision.recommended.added.length + decision.recommended.removed.length > 0) await show('recommended', 'the recommended design', decision.recommended);
     const alt = alternativeOf(decision);
-    if (alt) show('alternative', 'a cheaper option', alt);
+    if (alt) await show('alternative', 'a cheaper option', alt);
   } else if (stability.stable && ctx.problem.forcedOut.length === 0) {
     // no recommendation (no stable design within the rules, or a design past the exact guard): today's figures still show
     try {
-      show('today', "today's design", designFigures(ctx.problem, designDetails(ctx.problem, input.objective ?? 'total', Uint8Array.from(ctx.problem.today)), input.objective ?? 'total'));
+      await show('today', "today's design", designFigures(ctx.problem, designDetails(ctx.problem, input.objective ?? 'total', Uint8Array.from(ctx.problem.today), input.maxSets), input.objective ?? 'total'));
     } catch (e) {
       if (!(e instanceof EdgewiseError)) throw e;
     }
@@ -199,7 +240,16 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
       sweepAddition = { pair: single.pair, why: harmful ? 'harmful' : 'helpful' };
     }
     try {
-      sweep = await sweepUseCase(ctx, { grow, variants, steps: input.sweepSteps ?? 12 });
+      sweep = await sweepUseCase(ctx, {
+        grow,
+        variants,
+        steps: input.sweepSteps ?? 12,
+        score: input.score ?? 'exact',
+        seed: input.seed,
+        jobs: input.jobs,
+        ...(input.maxSets === undefined ? {} : { maxSets: input.maxSets }),
+        ...(input.jobs > 1 ? {} : { workerUrl: null }),
+      });
     } catch (e) {
       if (e instanceof EdgewiseError) notes.push(`No load sweep: ${e.message}.`);
       else throw e;
@@ -226,8 +276,21 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
     ? `The exact figures ignore patience (${impatientClasses(ctx)} one in the file): they assume every item waits until it is matched; the simulated figures under "Waits per class" include items giving up (abandonment).`
     : null;
   const warnings = [...(decision?.warnings ?? []).filter((w) => !/patience/i.test(w)), ...(patienceNote ? [patienceNote] : [])];
+  // each simulated section says so where it is printed
+  const simulatedParts = [
+    scored.method === 'simulation' ? "today's match rates and the designs under the demand variants" : null,
+    decision && [decision.today, decision.recommended].some((d) => d.method === 'simulation') ? 'the designs of the decision and the Pareto set' : null,
+    sweep?.method === 'simulation' ? 'the load sweep' : null,
+  ].filter((w): w is string => w !== null);
+  if (simulatedParts.length > 0) {
+    const plan = scoringPlan(ctx, scoring);
+    notes.push(
+      `Simulated figures (seed ${input.seed}, the same arrival stream for every design): ${simulatedParts.join('; ')}. Each simulated figure has a 95 % interval (in the JSON record; ${plan.replications} replications of ${plan.arrivals.toLocaleString('en-US')} arrivals), and two designs are called different only when their paired difference is significant.`,
+    );
+  }
   return {
     ...recordBase(ctx, 'report', [...new Set(warnings)]),
+    ...scored,
     description: ctx.description,
     costUnit: ctx.costUnit,
     itemWord: ctx.itemWord,
@@ -237,7 +300,7 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
     todayStable: stability.stable,
     bottleneck: stability.bottleneck ? setRecord(ctx.today, stability.bottleneck) : null,
     todayInstability,
-    matchRates: todayEval.stable ? Array.from({ length: ctx.today.m }, (_, e) => ({ pair: pairIds(ctx.today, ctx.today.edgeA[e]!, ctx.today.edgeB[e]!), rate: todayEval.result.matchRates[e]! })) : [],
+    matchRates: todayRates ? Array.from({ length: ctx.today.m }, (_, e) => ({ pair: pairIds(ctx.today, ctx.today.edgeA[e]!, ctx.today.edgeB[e]!), rate: todayRates[e]! })) : [],
     designs,
     variants: variantNames,
     sweep,

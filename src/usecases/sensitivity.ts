@@ -11,15 +11,19 @@ import { evaluateExact } from '../exact/evaluate.js';
 import { checkStability } from '../stability/check.js';
 import { certificateWithIds } from '../stability/certificate.js';
 import { explainEntry } from './explain.js';
-import { sensitivity, type ChangeRule, type ChangeSpec, type SensitivityEntry } from '../design/sensitivity/sensitivity.js';
+import { sensitivity, staysBottleneck, type ChangeRule, type ChangeSpec, type SensitivityEntry } from '../design/sensitivity/sensitivity.js';
 import { supportedDigits } from '../output/format.js';
 import { pairRules, recordBase, type ScenarioContext } from './context.js';
 import { instabilityOf } from './instability.js';
 import { byClass, certificateRecord, finite, idsOf, pairIds, type CertificateRecord, type InstabilityRecord, type RepairRecord, type PairIds, type RecordBase, type Reference, type SetRecord } from './records.js';
 import { exactWarnings } from './warnings.js';
 import { checkChangeCount } from './limits.js';
+import { bottlenecksOf, predicted as predictedAt, relationTo } from '../design/sensitivity/bottleneck-relation.js';
+import { compareChanges, perUnit } from '../design/sensitivity/change-ranking.js';
+import { backlogInterval, byScoring, pairedVs, pairsOf, patienceOf, scoringPlan, simulateDesigns, simulatedWaits, simulationRecord, simulationWarning, type ScoringInput, type ScoringRecord } from './scoring.js';
+import { num } from '../output/format.js';
 
-export type ChangeVerdict = 'helps' | 'harmful' | 'no change' | 'worth dropping' | 'raises backlog' | 'breaks stability' | 'makes it stable' | 'still unstable' | 'not evaluated';
+export type ChangeVerdict = 'helps' | 'harmful' | 'no change' | 'not distinguishable' | 'worth dropping' | 'raises backlog' | 'breaks stability' | 'makes it stable' | 'still unstable' | 'not evaluated';
 
 export interface ChangeRecord {
   readonly pair: PairIds;
@@ -46,6 +50,17 @@ export interface ChangeRecord {
   readonly predicted: boolean;
   readonly relation: 'joins-neighbours' | 'touches' | 'elsewhere' | null;
   readonly explanation: string;
+  /** How the figures of this change were made. */
+  readonly method: 'exact' | 'simulation';
+  /**
+   * Simulated: 95 % interval of `delta`, the paired difference against the reference design under
+   * common random numbers (the same arrival stream); `significant` when it excludes 0. A change
+   * that is not significant is "not distinguishable", never helpful or harmful.
+   */
+  readonly deltaCi95?: [number, number] | null;
+  readonly significant?: boolean;
+  /** Simulated: 95 % interval of the changed design's backlog. */
+  readonly backlogCi95?: [number, number] | null;
   /** Change in each class's mean wait (null when not evaluated or unstable). */
   readonly waitDelta: Record<string, number | null> | null;
   readonly certificate?: CertificateRecord;
@@ -61,13 +76,15 @@ export interface RuleCostRecord {
   readonly backlogSaved: number;
 }
 
-export interface SensitivityRecord extends RecordBase {
+export interface SensitivityRecord extends RecordBase, ScoringRecord {
   readonly command: 'sensitivity';
   /** The design every change is measured against. */
   readonly reference: Reference;
   readonly base: {
     readonly stable: boolean;
     readonly backlog: number | null;
+    /** Simulated: 95 % interval of the base backlog. */
+    readonly backlogCi95?: [number, number] | null;
     readonly wait: Record<string, number | null> | null;
     readonly independentSets: number | null;
     readonly bottlenecks: SetRecord[];
@@ -81,10 +98,9 @@ export interface SensitivityRecord extends RecordBase {
   readonly repairs: RepairRecord[] | null;
 }
 
-export interface SensitivityInput {
+export interface SensitivityInput extends ScoringInput {
   /** Try every absent pair (self-pairs included), not only the candidates. */
   readonly allPairs?: boolean;
-  readonly maxSets?: number;
 }
 
 /** The changes of the reference design, with the rules that allow or forbid each. */
@@ -170,10 +186,20 @@ export async function sensitivityUseCase(ctx: ScenarioContext, input: Sensitivit
   }
   const specs = changesOf(ctx, input.allPairs === true);
   checkChangeCount(specs.length, model.n, input.allPairs === true);
-  const unit = ctx.scenario.timeUnit;
   const base = recordBase(ctx, 'sensitivity', exactWarnings(ctx));
   const stability = checkStability(model);
   if (!stability.stable) return unstableRecord(ctx, base, specs, certificateWithIds(model, stability.certificate!));
+  return byScoring(
+    ctx,
+    input,
+    () => exactSensitivity(ctx, input, specs, base),
+    (reason) => simulatedSensitivity(ctx, input, specs, base, stability, reason),
+  );
+}
+
+function exactSensitivity(ctx: ScenarioContext, input: SensitivityInput, specs: ChangeSpec[], base: ReturnType<typeof recordBase<'sensitivity'>>): SensitivityRecord {
+  const model = ctx.model;
+  const unit = ctx.scenario.timeUnit;
   const result = sensitivity(model, specs, { ...(input.maxSets === undefined ? {} : { maxSets: input.maxSets }), timeUnit: unit });
   const bottlenecks = result.base.bottlenecks;
   const toRecord = (e: SensitivityEntry): ChangeRecord => ({
@@ -191,6 +217,7 @@ export async function sensitivityUseCase(ctx: ScenarioContext, input: Sensitivit
     predicted: e.predicted,
     relation: e.relation,
     explanation: explainEntry(model, e, bottlenecks, unit),
+    method: 'exact',
     waitDelta: e.stable ? byClass(model.ids, e.waitDelta) : null,
     ...(e.certificate ? { certificate: certificateRecord(e.certificate) } : {}),
     ...(e.skipped ? { skipped: e.skipped } : {}),
@@ -204,6 +231,7 @@ export async function sensitivityUseCase(ctx: ScenarioContext, input: Sensitivit
   const b = bottlenecks[0];
   return {
     ...base,
+    method: 'exact',
     precision: supportedDigits(b ? b.slack / b.capacity : null),
     reference: ctx.reference,
     base: {
@@ -230,7 +258,7 @@ async function unstableRecord(ctx: ScenarioContext, base: ReturnType<typeof reco
   const unit = ctx.scenario.timeUnit;
   const pairs = edgePairs(model);
   const record = (s: ChangeSpec): ChangeRecord => {
-    const common = { pair: pairIds(model, s.a, s.b), change: s.kind, allowed: s.allowed, ...ruleFields(s), listed: s.listed, price: s.price ?? null, delta: null, deltaPerPrice: null, predicted: false, relation: null, waitDelta: null };
+    const common = { pair: pairIds(model, s.a, s.b), change: s.kind, allowed: s.allowed, ...ruleFields(s), listed: s.listed, price: s.price ?? null, delta: null, deltaPerPrice: null, predicted: false, relation: null, waitDelta: null, method: 'exact' as const };
     if (s.kind === 'remove') return { ...common, stable: false, backlog: null, verdict: 'still unstable', explanation: 'the design is unstable with it, and removing a compatibility never helps stability' };
     const changed = compileGraph(model.ids, model.rates, [...pairs, [s.a, s.b]]);
     let st;
@@ -256,6 +284,7 @@ async function unstableRecord(ctx: ScenarioContext, base: ReturnType<typeof reco
     (x.allowed === y.allowed ? 0 : x.allowed ? -1 : 1) || (x.stable === y.stable ? 0 : x.stable ? -1 : 1) || (x.price ?? Infinity) - (y.price ?? Infinity);
   return {
     ...base,
+    method: 'exact',
     reference: ctx.reference,
     base: { stable: false, backlog: null, wait: null, independentSets: null, bottlenecks: [] },
     additions: specs.filter((s) => s.kind === 'add').map(record).sort(order),
@@ -265,5 +294,131 @@ async function unstableRecord(ctx: ScenarioContext, base: ReturnType<typeof reco
       const instability = await instabilityOf(ctx, cert);
       return { instability, repairs: instability.repairs };
     })()),
+  };
+}
+
+const interval = (c: readonly [number, number] | null | undefined): [number, number] | null => (c ? [c[0], c[1]] : null);
+
+/**
+ * Every single change scored by seeded simulation against the reference design, all with the same
+ * plan (common random numbers: the same arrival stream for every design), and its effect taken as
+ * the paired difference of the replications. A difference whose 95 % interval holds 0 is "not
+ * distinguishable": this simulation cannot tell whether the change helps or hurts.
+ */
+async function simulatedSensitivity(
+  ctx: ScenarioContext,
+  input: SensitivityInput,
+  specs: readonly ChangeSpec[],
+  base: ReturnType<typeof recordBase<'sensitivity'>>,
+  stability: ReturnType<typeof checkStability>,
+  reason: string,
+): Promise<SensitivityRecord> {
+  const model = ctx.model;
+  const unit = ctx.scenario.timeUnit;
+  const basePairs = pairsOf(model);
+  const designs = specs.map((s) =>
+    s.kind === 'add' ? [...basePairs, [s.a, s.b] as const] : basePairs.filter(([x, y]) => !(x === s.a && y === s.b)),
+  );
+  const scores = await simulateDesigns(model.ids, model.rates, [basePairs, ...designs], scoringPlan(ctx, input), input, patienceOf(ctx));
+  const scoring = simulationRecord(ctx, input, reason);
+  const baseScore = scores[0]!;
+  const bottlenecks = bottlenecksOf(model, stability);
+  if (!baseScore.stable) {
+    // the stability LP says stable, but the queues outgrew the simulation's cap: nothing to measure against
+    throw new EdgewiseError(`the reference design's queues outgrew the simulation's cap of ${scoringPlan(ctx, input).maxWaiting.toLocaleString('en-US')} waiting items: it is too close to the stability limit to simulate`);
+  }
+  const baseWaits = simulatedWaits(baseScore, model.rates)!;
+  const records = specs.map((s, i): ChangeRecord & { sortDelta: number } => {
+    const sc = scores[i + 1]!;
+    const relation = relationTo(bottlenecks, s.a, s.b);
+    const d = pairedVs(sc, baseScore);
+    const stable = sc.stable;
+    const delta = stable ? d.mean : Infinity;
+    const significant = stable && d.significant;
+    const verdict: ChangeVerdict = !stable
+      ? 'breaks stability'
+      : !significant
+        ? 'not distinguishable'
+        : s.kind === 'add'
+          ? delta < 0
+            ? 'helps'
+            : 'harmful'
+          : delta < 0
+            ? 'worth dropping'
+            : 'raises backlog';
+    const waits = simulatedWaits(sc, model.rates);
+    const ci = stable ? interval(d.ci95) : null;
+    const lead = !stable
+      ? 'simulated: breaks stability'
+      : `simulated: ${verdict}, backlog ${delta >= 0 ? '+' : ''}${num(delta)}${ci ? ` (95 % interval ${num(ci[0])} to ${num(ci[1])})` : ''}`;
+    // the entry explainEntry reads (the verdict words are the simulated lead)
+    const entry: SensitivityEntry = {
+      ...s,
+      stable,
+      backlog: stable ? sc.backlogTotal : Infinity,
+      delta,
+      waitDelta: new Float64Array(model.n),
+      perUnit: undefined,
+      harmful: verdict === 'harmful',
+      beneficial: verdict === 'worth dropping',
+      relation,
+      predicted: predictedAt(relation) && (s.kind === 'add' || staysBottleneck(model, s, bottlenecks[0]?.slack ?? Infinity)),
+    };
+    // rank on what the simulation can tell: an indistinguishable change counts as no change
+    const sortDelta = !stable ? Infinity : significant ? delta : 0;
+    const pu = perUnit(sortDelta, s.price);
+    return {
+      pair: pairIds(model, s.a, s.b),
+      change: s.kind,
+      allowed: s.allowed,
+      ...ruleFields(s),
+      listed: s.listed,
+      price: s.price ?? null,
+      stable,
+      backlog: stable ? finite(sc.backlogTotal) : null,
+      delta: stable ? finite(delta) : null,
+      deltaPerPrice: pu === undefined || !significant ? null : finite(pu),
+      verdict,
+      predicted: entry.predicted,
+      relation,
+      explanation: explainEntry(model, entry, bottlenecks, unit, lead),
+      method: 'simulation',
+      deltaCi95: ci,
+      significant,
+      backlogCi95: stable ? backlogInterval(sc) : null,
+      waitDelta: waits ? byClass(model.ids, Float64Array.from(waits, (w, k) => w - baseWaits[k]!)) : null,
+      sortDelta,
+    };
+  });
+  const order = (x: (typeof records)[number], y: (typeof records)[number]): number =>
+    (x.allowed === y.allowed ? 0 : x.allowed ? -1 : 1) ||
+    compareChanges({ a: model.index.get(x.pair[0])!, b: model.index.get(x.pair[1])!, price: x.price ?? undefined, delta: x.sortDelta }, { a: model.index.get(y.pair[0])!, b: model.index.get(y.pair[1])!, price: y.price ?? undefined, delta: y.sortDelta });
+  const strip = ({ sortDelta: _, ...c }: (typeof records)[number]): ChangeRecord => c;
+  const additions = records.filter((c) => c.change === 'add').sort(order).map(strip);
+  const removals = records.filter((c) => c.change === 'remove').sort(order).map(strip);
+  // a rule costs backlog only where the simulation shows a significant saving
+  const ruleCosts: RuleCostRecord[] = [...additions, ...removals]
+    .filter((c) => !c.allowed && c.rule && c.significant === true && c.delta !== null && c.delta < 0)
+    .map((c) => ({ pair: c.pair, change: c.change, rule: c.rule!, ...(c.ruleReason ? { ruleReason: c.ruleReason } : {}), backlogSaved: -c.delta! }))
+    .sort((x, y) => y.backlogSaved - x.backlogSaved);
+  const warnings = [simulationWarning(scoring)!, ...base.warnings.filter((w) => !/ignore patience/.test(w))];
+  return {
+    ...base,
+    warnings,
+    ...scoring,
+    reference: ctx.reference,
+    base: {
+      stable: true,
+      backlog: finite(baseScore.backlogTotal),
+      backlogCi95: backlogInterval(baseScore),
+      wait: byClass(model.ids, baseWaits),
+      independentSets: null,
+      bottlenecks: bottlenecks.map((x) => ({ set: idsOf(model, x.set), neighbours: idsOf(model, x.neighbours), demand: x.demand, capacity: x.capacity, spareCapacity: x.slack })),
+    },
+    additions,
+    removals,
+    ruleCosts,
+    instability: null,
+    repairs: null,
   };
 }

@@ -5,7 +5,13 @@
  */
 import { UsageError } from '../errors.js';
 import { GROWTH_LIMIT_METHOD } from '../design/sweep/growth-limit.js';
-import { sweep, type SweepVariantSpec } from '../design/sweep/sweep.js';
+import { applyChanges, sweep, type SweepVariantSpec } from '../design/sweep/sweep.js';
+import { growthLimit } from '../design/sweep/growth-limit.js';
+import { withRates } from '../model/compile.js';
+import { checkStability } from '../stability/check.js';
+import { EdgewiseError, UnstableDesignError } from '../errors.js';
+import { certificateWithIds } from '../stability/certificate.js';
+import { backlogInterval, byScoring, pairedVs, pairsOf, patienceOf, scoringPlan, simulateDesigns, simulationRecord, simulationWarning, type ScoringInput, type ScoringRecord } from './scoring.js';
 import { asciiPairs } from '../output/ascii-pairs.js';
 import { recordBase, type ScenarioContext } from './context.js';
 import { finite, idsOf, type PairIds, type RecordBase, type Reference } from './records.js';
@@ -16,7 +22,7 @@ export interface SweepVariantInput {
   readonly remove: readonly PairIds[];
 }
 
-export interface SweepInput {
+export interface SweepInput extends ScoringInput {
   readonly grow: readonly string[];
   readonly variants: readonly SweepVariantInput[];
   readonly steps: number;
@@ -30,6 +36,16 @@ export interface SweepPoint {
   /** λ(N(I)) − λ(I) of the bottleneck (null when unstable). */
   readonly spareCapacity: number | null;
   readonly bottleneck: string[];
+  /** How the backlog was made. */
+  readonly method: 'exact' | 'simulation';
+  /** Simulated: 95 % interval of the backlog. */
+  readonly backlogCi95?: [number, number] | null;
+  /**
+   * Simulated, for a variant: its backlog minus the reference design's at this step, paired under
+   * common random numbers (the same arrival stream), with its 95 % interval; `significant` when
+   * the interval excludes 0 (otherwise the two are not distinguishable at this step).
+   */
+  readonly vsReference?: { readonly difference: number | null; readonly ci95: [number, number] | null; readonly significant: boolean };
 }
 
 export interface SweepCurveRecord {
@@ -42,7 +58,7 @@ export interface SweepCurveRecord {
   readonly points: SweepPoint[];
 }
 
-export interface SweepRecord extends RecordBase {
+export interface SweepRecord extends RecordBase, ScoringRecord {
   readonly command: 'sweep';
   readonly reference: Reference;
   readonly grow: string[];
@@ -56,7 +72,12 @@ export interface SweepRecord extends RecordBase {
     readonly headroomUsed: number | null;
     readonly direction: 'starts-to-hurt' | 'starts-to-help';
     readonly between: [number, number | null];
-    readonly how: 'interpolated' | 'bisection';
+    /**
+     * Exact: 'interpolated' or 'bisection'. Simulated: 'bracketed' (significant on both sides, between
+     * two neighbouring steps: `factor` is the midpoint) or 'unresolved' (steps whose intervals hold 0
+     * lie between the last step on one side and the first on the other; `factor` is the midpoint).
+     */
+    readonly how: 'interpolated' | 'bisection' | 'bracketed' | 'unresolved';
   }>;
   readonly crossoverMethod: string;
 }
@@ -71,6 +92,9 @@ export function variantName(v: SweepVariantInput): string {
   if (v.remove.length > 0) parts.push(`without ${asciiPairs(v.remove)}`);
   return parts.join(' ');
 }
+
+export const SIMULATED_CROSSOVER_METHOD =
+  'change of sign of the paired difference (variant − reference) between steps where its 95 % interval excludes 0 (a variant unstable at a step counts as hurting there): bracketed between two neighbouring steps, or unresolved where steps not distinguishable lie between';
 
 export async function sweepUseCase(ctx: ScenarioContext, input: SweepInput): Promise<SweepRecord> {
   const model = ctx.model;
@@ -93,7 +117,17 @@ export async function sweepUseCase(ctx: ScenarioContext, input: SweepInput): Pro
     add: v.add.map((p) => [at(p[0], '--with'), at(p[1], '--with')] as const),
     remove: v.remove.map((p) => [at(p[0], '--without'), at(p[1], '--without')] as const),
   }));
-  const r = sweep(model, { grow, variants: specs, steps: input.steps, timeUnit: ctx.scenario.timeUnit });
+  return byScoring(
+    ctx,
+    input,
+    () => exactSweep(ctx, input, grow, specs),
+    (reason) => simulatedSweep(ctx, input, grow, specs, reason),
+  );
+}
+
+function exactSweep(ctx: ScenarioContext, input: SweepInput, grow: number[], specs: SweepVariantSpec[]): SweepRecord {
+  const model = ctx.model;
+  const r = sweep(model, { grow, variants: specs, steps: input.steps, timeUnit: ctx.scenario.timeUnit, ...(input.maxSets === undefined ? {} : { maxSets: input.maxSets }) });
   const used = (s: number): number | null => (Number.isFinite(r.limit) ? (s - 1) / (r.limit - 1) : null);
   const curves = [r.base, ...r.variants].map((c, i) => ({
     name: i === 0 ? 'reference' : c.name,
@@ -106,10 +140,12 @@ export async function sweepUseCase(ctx: ScenarioContext, input: SweepInput): Pro
       backlog: finite(c.backlog[t]!),
       spareCapacity: finite(c.slack[t]!),
       bottleneck: idsOf(model, c.bottleneck[t]!),
+      method: 'exact' as const,
     })),
   }));
   return {
     ...recordBase(ctx, 'sweep', exactWarnings(ctx)),
+    method: 'exact',
     reference: ctx.reference,
     grow: idsOf(model, r.grow),
     limit: { factor: finite(r.limit), method: GROWTH_LIMIT_METHOD },
@@ -126,3 +162,107 @@ export async function sweepUseCase(ctx: ScenarioContext, input: SweepInput): Pro
     crossoverMethod: CROSSOVER_METHOD,
   };
 }
+
+const APPROACH = 0.98;
+const MAX_FACTOR = 4;
+
+/**
+ * The sweep with every backlog simulated: at each step the reference design and the variants are
+ * simulated under that step's rates with the same plan (common random numbers), so each variant's
+ * difference from the reference is a paired difference with its own interval. The stability limit,
+ * the spare capacity and the bottleneck come from the stability LP as in the exact sweep.
+ */
+async function simulatedSweep(ctx: ScenarioContext, input: SweepInput, grow: number[], specs: SweepVariantSpec[], reason: string): Promise<SweepRecord> {
+  const model = ctx.model;
+  if (!(Number.isInteger(input.steps) && input.steps >= 1)) throw new UsageError(`the number of steps must be a whole number >= 1, got ${input.steps}`);
+  const today = checkStability(model);
+  if (!today.stable) throw new UnstableDesignError(certificateWithIds(model, today.certificate!), ctx.scenario.timeUnit);
+  const grown = new Uint8Array(model.n);
+  grow.forEach((k) => (grown[k] = 1));
+  const limit = growthLimit(model, Int32Array.from(grow));
+  const last = Number.isFinite(limit) ? 1 + APPROACH * (limit - 1) : MAX_FACTOR;
+  const factors = Array.from({ length: input.steps + 1 }, (_, t) => 1 + ((last - 1) * t) / input.steps);
+  const designs = [model, ...specs.map((v) => applyChanges(model, v))];
+  const pairs = designs.map(pairsOf);
+  const plan = scoringPlan(ctx, input);
+  const patience = patienceOf(ctx);
+  const scaled = (s: number): Float64Array => model.rates.map((r, k) => (grown[k] ? r * s : r));
+  const at: Array<Awaited<ReturnType<typeof simulateDesigns>>> = [];
+  for (const s of factors) at.push(await simulateDesigns(model.ids, scaled(s), pairs, plan, input, patience));
+  const stabilityAt = (d: number, s: number): { slack: number | null; set: string[] } => {
+    try {
+      const st = checkStability(withRates(designs[d]!, scaled(s)));
+      return st.stable && st.bottleneck ? { slack: st.bottleneck.slack, set: idsOf(model, st.bottleneck.set) } : { slack: null, set: [] };
+    } catch (e) {
+      if (e instanceof EdgewiseError) return { slack: null, set: [] };
+      throw e;
+    }
+  };
+  const ownLimit = (d: number): number | null => {
+    if (d === 0) return finite(limit);
+    return checkStability(designs[d]!).stable ? finite(growthLimit(designs[d]!, Int32Array.from(grow))) : null;
+  };
+  const curves: SweepCurveRecord[] = designs.map((_, d) => ({
+    name: d === 0 ? 'reference' : specs[d - 1]!.name,
+    add: d === 0 ? [] : input.variants[d - 1]!.add.map((p) => [p[0], p[1]] as const),
+    remove: d === 0 ? [] : input.variants[d - 1]!.remove.map((p) => [p[0], p[1]] as const),
+    limit: ownLimit(d),
+    points: factors.map((s, t) => {
+      const sc = at[t]![d]!;
+      const st = stabilityAt(d, s);
+      const vs = d === 0 ? null : pairedVs(sc, at[t]![0]!);
+      return {
+        factor: s,
+        stable: sc.stable,
+        backlog: sc.stable ? finite(sc.backlogTotal) : null,
+        spareCapacity: st.slack,
+        bottleneck: st.set,
+        method: 'simulation' as const,
+        backlogCi95: backlogInterval(sc),
+        ...(vs ? { vsReference: { difference: finite(vs.mean), ci95: vs.ci95 ? [vs.ci95[0], vs.ci95[1]] as [number, number] : null, significant: vs.significant } } : {}),
+      };
+    }),
+  }));
+  const used = (s: number): number | null => (Number.isFinite(limit) ? (s - 1) / (limit - 1) : null);
+  const crossovers: SweepRecord['crossovers'] = [];
+  curves.slice(1).forEach((c) => {
+    // +1: hurts (significant, or unstable while the reference is not); −1: helps; 0: not distinguishable
+    const sign = c.points.map((p, t) => {
+      if (!curves[0]!.points[t]!.stable) return 0;
+      if (!p.stable) return 1;
+      const v = p.vsReference!;
+      return v.significant && v.difference !== null ? Math.sign(v.difference) : 0;
+    });
+    let prev = -1;
+    sign.forEach((g, t) => {
+      if (g === 0) return;
+      if (prev >= 0 && sign[prev]! !== g) {
+        const lo = factors[prev]!;
+        const hi = factors[t]!;
+        const mid = (lo + hi) / 2;
+        crossovers.push({
+          variant: c.name,
+          factor: mid,
+          headroomUsed: used(mid),
+          direction: g > 0 ? 'starts-to-hurt' : 'starts-to-help',
+          between: [lo, hi],
+          how: t === prev + 1 ? 'bracketed' : 'unresolved',
+        });
+      }
+      prev = t;
+    });
+  });
+  const scoring = simulationRecord(ctx, input, reason);
+  return {
+    ...recordBase(ctx, 'sweep', [simulationWarning(scoring)!, ...exactWarnings(ctx).filter((w) => !/ignore patience/.test(w))]),
+    ...scoring,
+    reference: ctx.reference,
+    grow: idsOf(model, Int32Array.from(grow)),
+    limit: { factor: finite(limit), method: GROWTH_LIMIT_METHOD },
+    steps: factors.map((s) => ({ factor: s, headroomUsed: used(s) })),
+    curves,
+    crossovers,
+    crossoverMethod: SIMULATED_CROSSOVER_METHOD,
+  };
+}
+

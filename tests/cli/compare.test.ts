@@ -114,7 +114,7 @@ describe('compare --json', () => {
   it('demand variants: worst case of the best design is 131/56 under "rush"; the robust choice is today\'s design (7/3)', () => {
     const d = j.columns[3];
     expect(d.variants).toEqual(['rush']);
-    expect(d.underVariants).toEqual([{ variant: 'rush', stable: true, backlog: expect.any(Number), maxWait: expect.any(Number), maxWaitClass: expect.any(String) }]);
+    expect(d.underVariants).toEqual([{ variant: 'rush', stable: true, backlog: expect.any(Number), maxWait: expect.any(Number), maxWaitClass: expect.any(String), method: 'exact' }]);
     near(d.underVariants[0].backlog, 7 / 3);
     expect(d.recommended.added).toEqual([['a', 'b']]);
     near(d.recommended.worstBacklog, 131 / 56);

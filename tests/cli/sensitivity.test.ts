@@ -110,8 +110,12 @@ describe('edgewise sensitivity', () => {
     expect(unstable.code).toBe(3);
     expect(unstable.out).toMatch(/Unstable: items from east-village and west-village/);
     expect(unstable.out).toMatch(/Ways out, cheapest first/);
-    const tooMany = await run({ file: scenarioFile('k4d.json', family([0.2, 0.2, 0.4, 0.2])), maxSets: 3 });
+    // --score exact keeps the refusal; the default (auto) simulates past the guard instead
+    const tooMany = await run({ file: scenarioFile('k4d.json', family([0.2, 0.2, 0.4, 0.2])), maxSets: 3, score: 'exact' });
     expect(tooMany.code).toBe(4);
+    const auto = await run({ file: scenarioFile('k4d.json', family([0.2, 0.2, 0.4, 0.2])), maxSets: 3, json: true });
+    expect(auto.code).toBe(0);
+    expect(JSON.parse(auto.out).method).toBe('simulation');
     expect((await run({ file: scenarioFile('k4e.json', family([0.2, 0.2, 0.4, 0.2])), maxSets: 0 })).code).toBe(2);
     expect((await run({ file: join(dir, 'nope.json') })).code).toBe(2);
   });

@@ -64,7 +64,7 @@ describe('edgewise sweep', () => {
 
   it('--csv: one row per step and design; the table for people names the crossover', async () => {
     const csv = (await run({ file: k4file, grow: 'c', with: ['a~b'], steps: 4, csv: true })).out.trim().split('\n');
-    expect(csv[0]).toBe('step,factor,headroomUsed,design,stable,backlog,spareCapacity,bottleneck');
+    expect(csv[0]).toBe('step,factor,headroomUsed,design,stable,backlog,spareCapacity,bottleneck,method,backlogLow,backlogHigh');
     expect(csv).toHaveLength(1 + 2 * 5);
     const first = csv[1]!.split(',');
     expect(first[3]).toBe('reference');

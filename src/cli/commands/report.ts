@@ -6,13 +6,12 @@ import { para, title } from '../../output/text/doc.js';
 import { execute, type OutputOptions } from '../command.js';
 import type { CommandIO } from '../io.js';
 import { loadContext, type ContextFlags } from '../load.js';
-import { wholeNumber } from '../options.js';
+import { scoringOptions, wholeNumber, type ScoringFlags } from '../options.js';
 import { prepareOutput, writeFileAtomic } from '../write.js';
 
-export interface ReportOptions extends ContextFlags, OutputOptions {
+export interface ReportOptions extends ContextFlags, OutputOptions, ScoringFlags {
   readonly output?: string;
-  readonly jobs?: number | string;
-  readonly seed?: number | string;
+  readonly maxDesigns?: number | string;
 }
 
 /**
@@ -27,12 +26,12 @@ export function reportCommand(opts: ReportOptions, io: CommandIO): Promise<numbe
     {
       load: (io) => {
         target = prepareOutput(opts.output ?? '', io.cwd, [opts.file, ...(opts.design ? [opts.design] : [])], '-o');
-        const jobs = wholeNumber(opts.jobs, '--jobs', 1, 1, 256);
-        const seed = wholeNumber(opts.seed, '--seed', 0, 1);
-        return { ctx: loadContext(opts, io.cwd), jobs, seed };
+        const scoring = scoringOptions(opts);
+        const maxDesigns = opts.maxDesigns === undefined ? undefined : wholeNumber(opts.maxDesigns, '--max-designs', 1, 1);
+        return { ctx: loadContext(opts, io.cwd), scoring: { ...scoring, ...(maxDesigns === undefined ? {} : { maxDesigns }) } };
       },
-      run: async ({ ctx, jobs, seed }, io) => {
-        const r = await reportUseCase(ctx, { jobs, seed, ...(io.isTTY ? { onPhase: (p: string) => io.err(`edgewise report: ${p}…\n`) } : {}) });
+      run: async ({ ctx, scoring }, io) => {
+        const r = await reportUseCase(ctx, { ...scoring, ...(io.isTTY ? { onPhase: (p: string) => io.err(`edgewise report: ${p}…\n`) } : {}) });
         const page = renderReport(r, { generator: 'edgewise 0.2.0' });
         writeFileAtomic(target, page);
         size = Buffer.byteLength(page);

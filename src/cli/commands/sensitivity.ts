@@ -4,22 +4,21 @@ import { sensitivityCsv } from '../../output/csv.js';
 import { execute, type OutputOptions } from '../command.js';
 import type { CommandIO } from '../io.js';
 import { loadContext, type ContextFlags } from '../load.js';
-import { checkMaxSets } from '../options.js';
+import { scoringOptions, type ScoringFlags } from '../options.js';
 
-export interface SensitivityCommandOptions extends ContextFlags, OutputOptions {
+export interface SensitivityCommandOptions extends ContextFlags, OutputOptions, ScoringFlags {
   readonly allPairs?: boolean;
-  readonly maxSets?: number;
 }
 
-/** `edgewise sensitivity FILE`: the exact effect of every single change, with the rules that allow it. */
+/** `edgewise sensitivity FILE`: the effect of every single change (exact, or simulated with intervals), with the rules that allow it. */
 export function sensitivityCommand(opts: SensitivityCommandOptions, io: CommandIO): Promise<number> {
   return execute(
     {
       load: (io) => {
-        checkMaxSets(opts.maxSets);
-        return loadContext(opts, io.cwd);
+        const scoring = scoringOptions(opts);
+        return { ctx: loadContext(opts, io.cwd), scoring };
       },
-      run: (ctx) => sensitivityUseCase(ctx, { allPairs: opts.allPairs === true, ...(opts.maxSets === undefined ? {} : { maxSets: opts.maxSets }) }),
+      run: ({ ctx, scoring }) => sensitivityUseCase(ctx, { allPairs: opts.allPairs === true, ...scoring }),
       text: (r) => sensitivityText(r),
       csv: (r) => sensitivityCsv(r),
       exitCode: (r) => (r.base.stable ? 0 : 3),

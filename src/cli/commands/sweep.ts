@@ -6,9 +6,9 @@ import { sweepUseCase } from '../../usecases/sweep.js';
 import { execute, type OutputOptions } from '../command.js';
 import type { CommandIO } from '../io.js';
 import { loadContext, type ContextFlags } from '../load.js';
-import { wholeNumber } from '../options.js';
+import { scoringOptions, wholeNumber, type ScoringFlags } from '../options.js';
 
-export interface SweepCommandOptions extends ContextFlags, OutputOptions {
+export interface SweepCommandOptions extends ContextFlags, OutputOptions, ScoringFlags {
   readonly grow?: string;
   /** Each occurrence is one variant; `a~b,c~d` adds both in the same variant. */
   readonly with?: readonly string[];
@@ -25,7 +25,7 @@ function notation<T>(flag: string, read: () => T): T {
   }
 }
 
-/** `edgewise sweep FILE --grow a,b`: exact backlog from today's rates to the stability limit. */
+/** `edgewise sweep FILE --grow a,b`: backlog (exact, or simulated with intervals) from today's rates to the stability limit. */
 export function sweepCommand(opts: SweepCommandOptions, io: CommandIO): Promise<number> {
   return execute(
     {
@@ -43,7 +43,8 @@ export function sweepCommand(opts: SweepCommandOptions, io: CommandIO): Promise<
           ...(opts.with ?? []).map((t) => ({ add: pairs('--with', t), remove: [] })),
           ...(opts.without ?? []).map((t) => ({ add: [], remove: pairs('--without', t) })),
         ];
-        return { ctx: loadContext(opts, io.cwd), input: { grow, variants, steps } };
+        const scoring = scoringOptions(opts);
+        return { ctx: loadContext(opts, io.cwd), input: { grow, variants, steps, ...scoring } };
       },
       run: ({ ctx, input }) => sweepUseCase(ctx, input),
       text: (r) => sweepText(r),

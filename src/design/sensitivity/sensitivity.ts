@@ -167,7 +167,7 @@ export function sensitivity(model: CompiledModel, jobs: readonly ChangeSpec[], o
  * an endpoint, which the compatibility would touch); so the question is whether the least slack of
  * the changed design is still that of I. A removal that breaks stability is not predicted to help.
  */
-function staysBottleneck(model: CompiledModel, job: Job, least: number): boolean {
+export function staysBottleneck(model: CompiledModel, job: Job, least: number): boolean {
   let s;
   try {
     s = checkStability(changedModel(model, job));

@@ -11,6 +11,12 @@ function changes(d: DesignSummary): string {
   return parts.length > 0 ? parts.join('; ') : "keep today's design";
 }
 
+/** A backlog as shown: "12.3" (exact) or "12.3 ± 0.4 (simulated)" with half its 95 % interval. */
+function backlogCell(b: number | null, ci: readonly [number, number] | null | undefined, method: 'exact' | 'simulation'): string {
+  if (b === null) return 'unbounded';
+  return method === 'simulation' ? `${num(b)}${ci ? ` ± ${num((ci[1] - ci[0]) / 2, 2)}` : ''} (simulated)` : num(b);
+}
+
 const worst = (d: DesignSummary): string => (d.worstBacklog !== null ? `${num(d.worstBacklog)} (${d.worstUnder})` : `unstable (${d.worstUnder})`);
 
 /** `compare` for people: one column per scenario (or per budget); columns that do not fit fold into further tables. */
@@ -23,7 +29,7 @@ export function compareText(r: CompareRecord): Block[] {
     ['design', (c) => referenceWords(c.reference)],
     ['stability', (c) => (c.stable ? 'stable' : `UNSTABLE: ${c.instability?.message.replace(/^unstable: /, '') ?? ''}`)],
     ['bottleneck (spare capacity)', (c) => (c.bottleneck ? `${setText(c.bottleneck.set)} (${rate(c.bottleneck.spareCapacity, c.timeUnit)})` : '—')],
-    ['total backlog', (c) => (c.backlog !== null ? num(c.backlog) : 'unbounded')],
+    ['total backlog', (c) => backlogCell(c.backlog, c.backlogCi95, c.method)],
     ['worst class wait', (c) => (c.worstWait ? `${wait(c.worstWait.wait, scale(c))} (${c.worstWait.class})` : 'unbounded')],
   ];
   if (hasVariants) {
@@ -38,7 +44,7 @@ export function compareText(r: CompareRecord): Block[] {
   rows.push(
     ['recommended design', (c) => (c.recommended ? changes(c.recommended) : c.note ?? '—')],
     ['its cost', (c) => (c.recommended ? num(c.recommended.cost) : '—')],
-    ['its total backlog', (c) => (c.recommended?.backlog != null ? num(c.recommended.backlog) : '—')],
+    ['its total backlog', (c) => (c.recommended?.backlog != null ? backlogCell(c.recommended.backlog, c.recommended.backlogCi95, c.recommended.method) : '—')],
     ['its worst class wait', (c) => (c.recommended?.maxWait != null ? wait(c.recommended.maxWait, scale(c)) : '—')],
   );
   if (hasVariants) {

@@ -29,7 +29,8 @@ function largestWaitChange(c: ChangeRecord, timeUnit: string, waits: readonly nu
 
 /** `sensitivity` for people. */
 export function sensitivityText(r: SensitivityRecord): Block[] {
-  const blocks: Block[] = [title(`${r.scenario} — exact effect of single changes to ${referenceWords(r.reference)} (FCFM)`)];
+  const sim = r.method === 'simulation';
+  const blocks: Block[] = [title(`${r.scenario} — ${sim ? 'simulated' : 'exact'} effect of single changes to ${referenceWords(r.reference)} (FCFM)`)];
   const hasBottleneck = r.base.bottlenecks.length > 0;
   const waits = Object.values(r.base.wait ?? {}).map((w) => w ?? NaN);
   if (!r.base.stable) {
@@ -49,6 +50,7 @@ export function sensitivityText(r: SensitivityRecord): Block[] {
     blocks.push(
       para(
         `${referenceWords(r.reference)}: mean backlog ${num(r.base.backlog!)}` +
+          (r.base.backlogCi95 ? ` (simulated, 95 % interval ${num(r.base.backlogCi95[0])} to ${num(r.base.backlogCi95[1])})` : '') +
           (b
             ? ` · bottleneck ${r.base.bottlenecks.map((x) => setText(x.set)).join(' and ')} with ${rate(b.spareCapacity, r.timeUnit)} of spare capacity (can only be matched with ${setText(b.neighbours)})`
             : ' · no bottleneck (every class matches its own kind); the near-saturation condition does not apply'),
@@ -63,8 +65,9 @@ export function sensitivityText(r: SensitivityRecord): Block[] {
             { header: money, align: 'right' },
             { header: 'backlog', align: 'right' },
             { header: 'Δ backlog', align: 'right' },
+            ...(sim ? [{ header: 'Δ 95 % interval', align: 'right' as const }] : []),
             { header: `Δ per ${money}`, align: 'right', secondary: true },
-            { header: 'exact verdict' },
+            { header: sim ? 'simulated verdict' : 'exact verdict' },
             { header: 'near-saturation condition', wrap: true, secondary: true },
             { header: 'largest wait change', secondary: true },
           ],
@@ -73,6 +76,7 @@ export function sensitivityText(r: SensitivityRecord): Block[] {
             c.price === null ? '—' : num(c.price),
             c.skipped ? '—' : c.stable ? num(c.backlog!) : 'unstable',
             c.delta === null ? (c.stable === false ? 'unbounded' : '—') : signed(c.delta),
+            ...(sim ? [c.deltaCi95 ? `${signed(c.deltaCi95[0])} to ${signed(c.deltaCi95[1])}` : '—'] : []),
             c.deltaPerPrice === null ? '—' : signed(c.deltaPerPrice),
             c.verdict,
             condition(c, hasBottleneck),
@@ -114,7 +118,11 @@ export function sensitivityText(r: SensitivityRecord): Block[] {
     blocks.push(
       para(
         `Every figure is measured against ${referenceWords(r.reference)}. harmful: the addition raises the mean backlog; worth dropping: the removal lowers it (or keeps it and saves money). ` +
-          'The condition column is the published near-saturation criterion for the bottleneck; the exact verdict is what holds.',
+          (sim
+            ? 'Simulated: each Δ is the paired difference against it under the same arrival stream (common random numbers), with its 95 % interval; ' +
+              'not distinguishable: the interval holds 0, so this simulation cannot tell whether the change helps or hurts. '
+            : '') +
+          `The condition column is the published near-saturation criterion for the bottleneck; the ${sim ? 'simulated' : 'exact'} verdict is what holds.`,
       ),
     );
   }

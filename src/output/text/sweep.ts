@@ -15,8 +15,12 @@ export function sweepText(r: SweepRecord): Block[] {
     const parts = [c.add.length > 0 ? `with ${c.add.map((p) => pairText(p)).join(', ')}` : '', c.remove.length > 0 ? `without ${c.remove.map((p) => pairText(p)).join(', ')}` : ''];
     return parts.filter((x) => x !== '').join(' ');
   };
+  const sim = r.method === 'simulation';
+  // simulated: each backlog with its 95 % interval as "12.3 ± 0.4"
+  const shown = (p: SweepRecord['curves'][number]['points'][number]): string =>
+    p.backlogCi95 ? `${num(p.backlog!)} ± ${num((p.backlogCi95[1] - p.backlogCi95[0]) / 2, 2)}` : num(p.backlog!);
   const blocks: Block[] = [
-    title(`${r.scenario} — load sweep of ${referenceWords(r.reference)}: ${grown} grow together (exact FCFM backlog)`),
+    title(`${r.scenario} — load sweep of ${referenceWords(r.reference)}: ${grown} grow together (${sim ? 'simulated' : 'exact'} FCFM backlog)`),
     tableBlock({
       columns: [
         { header: 'load factor', align: 'right' },
@@ -31,7 +35,7 @@ export function sweepText(r: SweepRecord): Block[] {
         s.headroomUsed === null ? '—' : pct(s.headroomUsed),
         ...r.curves.flatMap((c) => {
           const p = c.points[t]!;
-          return p.stable ? [num(p.backlog!), num(p.spareCapacity!)] : ['unstable', '—'];
+          return p.stable ? [shown(p), p.spareCapacity === null ? '—' : num(p.spareCapacity)] : ['unstable', '—'];
         }),
       ]),
     }),
@@ -49,14 +53,27 @@ export function sweepText(r: SweepRecord): Block[] {
     const own = r.crossovers.filter((c) => c.variant === v.name);
     const first = v.points[0]!;
     const base = r.curves[0]!.points[0]!;
-    const today = !first.stable ? 'unstable today' : first.backlog! < base.backlog! ? 'helps today' : first.backlog! > base.backlog! ? 'hurts today' : 'same as today';
+    const today = !first.stable
+      ? 'unstable today'
+      : first.vsReference && !first.vsReference.significant
+        ? 'not distinguishable today'
+        : first.backlog! < base.backlog!
+          ? 'helps today'
+          : first.backlog! > base.backlog!
+            ? 'hurts today'
+            : 'same as today';
+    const where = (c: SweepRecord['crossovers'][number]): string =>
+      c.how === 'bracketed' || c.how === 'unresolved'
+        ? `between ×${num(c.between[0])} and ×${num(c.between[1] ?? NaN)}${c.how === 'unresolved' ? ' (unresolved: not distinguishable in between)' : ''}`
+        : `at ×${num(c.factor)}${c.headroomUsed !== null ? ` (${pct(c.headroomUsed)} of the headroom)` : ''}`;
     const cross =
       own.length === 0
         ? 'no crossover within the sweep'
-        : own.map((c) => `${c.direction === 'starts-to-hurt' ? 'starts to hurt' : 'starts to help'} at ×${num(c.factor)}${c.headroomUsed !== null ? ` (${pct(c.headroomUsed)} of the headroom)` : ''}`).join(', then ');
+        : own.map((c) => `${c.direction === 'starts-to-hurt' ? 'starts to hurt' : 'starts to help'} ${where(c)}`).join(', then ');
     const ownLimit = v.limit !== null ? `its own limit ×${num(v.limit, 6)}` : first.stable ? 'no limit' : 'no limit (unstable)';
     lines.push(`${label(v.name)}: ${today}; ${cross}; ${ownLimit}`);
   }
   if (lines.length > 0) blocks.push(list(lines, `Variants, measured against ${referenceWords(r.reference)}:`), para(`Crossovers: ${r.crossoverMethod}.`));
+  if (sim) blocks.push(para('Simulated: each backlog is shown as mean ± half its 95 % interval; a variant is said to help or hurt only where its paired difference from the reference is significant.'));
   return blocks;
 }
