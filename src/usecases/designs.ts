@@ -90,6 +90,22 @@ export function abandonmentLimits(
   return out.length > 0 ? out : null;
 }
 
+/** The limits of the file against per-class simulated estimates (mean and 95 % interval per class). */
+export function limitsOfEstimates(
+  ids: readonly string[],
+  limits: ArrayLike<number> | undefined,
+  byClass: ReadonlyArray<{ readonly mean: number; readonly ci95: readonly [number, number] | null }>,
+): AbandonmentLimit[] | null {
+  const nan = (x: number): number => (Number.isFinite(x) ? x : NaN);
+  return abandonmentLimits(
+    ids,
+    limits,
+    byClass.map((e) => e.mean),
+    byClass.map((e) => nan(e.ci95 ? e.ci95[0] : NaN)),
+    byClass.map((e) => nan(e.ci95 ? e.ci95[1] : NaN)),
+  );
+}
+
 /** Added and dropped pairs of a design (forced removals of forbidden pairs first among the dropped). */
 export function changePairs(problem: DesignProblem, design: ArrayLike<number>): { added: PairIds[]; removed: PairIds[] } {
   const { added, removed } = designChanges(problem, design);

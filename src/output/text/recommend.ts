@@ -23,7 +23,7 @@ const ADVICE_WORDS: Record<string, string> = {
 /** The objective's value in words: a backlog, or a wait in the wait scale. */
 function objectiveValue(d: DecisionPart, x: number | null, scale: WaitScale): string {
   if (x === null) return '—';
-  return d.objective === 'max-wait' ? wait(x, scale) : num(x);
+  return d.objective === 'max-wait' ? wait(x, scale) : d.objective === 'abandonment' ? pct(x) : num(x);
 }
 
 function deltaText(d: DecisionPart, v: VerdictRecord | undefined, scale: WaitScale): string {
