@@ -122,7 +122,7 @@ scoringFlags(scenarioFlags(program.command('sweep').description('grow some class
   .action((file: string, opts: Record<string, unknown>) => action('sweep', async () => (await import('./commands/sweep.js')).sweepCommand)({ ...opts, file }));
 
 scenarioFlags(program.command('recommend').description('budgeted design: the Pareto set, the recommended design and every single-change verdict against it'), { budget: true, csv: true })
-  .addOption(new Option('--objective <name>', 'total | weighted | max-wait | net-value (value of matches − waiting cost; needs values in the file)').default('total'))
+  .addOption(new Option('--objective <name>', 'total | weighted | max-wait | net-value (value of matches − waiting cost; needs values in the file) | abandonment (share of arrivals that give up; simulated, needs patience)').default('total'))
   .option('--jobs <j>', 'worker threads scoring designs (default 1); the output does not depend on it')
   .option('--exhaustive', 'enumerate every design (at most 20 removable compatibilities and candidates)')
   .option('--seed <s>', 'seed of the local search and of the simulation streams (default 1)')

@@ -2,7 +2,7 @@
  * The rules that look across fields, which a JSON Schema cannot state: unique class ids, pairs that
  * name known classes and appear once, candidates that are not already compatibilities, rate
  * intervals around their rate, demand variants naming known classes, and the consistency of
- * mustKeep, forbidden and maxCompatibilities. They run on the raw document beside the schema pass
+ * mustKeep, forbidden and maxCompatibilities, and a maxAbandonment only where the class has a patience. They run on the raw document beside the schema pass
  * (every entry whose shape is wrong is skipped here: the schema reports it), so that every problem
  * is listed at once. Linear in the size of the document.
  */
@@ -145,6 +145,18 @@ export function crossChecks(doc: Record<string, unknown>): RawProblem[] {
     if (f > mc) {
       bad(['classes', i, 'maxCompatibilities'], `${mc} is below the ${f} compatibilities of ${preview(id)} that cannot be dropped (not removable or in mustKeep)`);
     }
+  });
+
+  // ---- maxAbandonment: only items with a patience abandon, so the limit needs one
+  classes.forEach((c, i) => {
+    if (!isObj(c)) return;
+    const limit = own(c, 'maxAbandonment');
+    if (typeof limit !== 'number' || own(c, 'patience') !== undefined) return;
+    const id = own(c, 'id');
+    bad(
+      ['classes', i, 'maxAbandonment'],
+      `a limit of ${limit} on the abandonment share of ${typeof id === 'string' ? preview(id) : 'this class'} can never bind: the class has no "patience", so its items never abandon; give the class a patience (mean, time units) or drop the limit`,
+    );
   });
 
   // ---- demand variants

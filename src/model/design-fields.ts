@@ -4,7 +4,8 @@
  *
  * - per class: `maxCompatibilities` (integer ≥ 0: at most this many compatibilities touch the class,
  *   a self-loop counting once), `waitTarget` (mean wait must stay ≤ this, time units, > 0) and
- *   `weight` (≥ 0, default 1, used by the weighted objective);
+ *   `weight` (≥ 0, default 1, used by the weighted objective), `maxAbandonment` (the share of the
+ *   class's arrivals that abandon must stay ≤ this; judged on simulated figures, as it needs patience);
  * - top level: `mustKeep` (compatibilities no design may drop) and `forbidden` (pairs no design may
  *   contain: a candidate is never added, a removable compatibility is always dropped).
  *
@@ -20,6 +21,8 @@ export interface DesignFields {
   readonly waitTarget: Float64Array;
   /** Per class: weight of the weighted objective (default 1). */
   readonly weight: Float64Array;
+  /** Per class: most share of its arrivals that may abandon, NaN when none (needs a patience: cross-checks.ts). */
+  readonly maxAbandonment: Float64Array;
   /** Pairs (class ids) no design may drop, as listed. */
   readonly mustKeep: ReadonlyArray<IdPair>;
   /** Pairs (class ids) no design may contain, as listed. */
@@ -32,15 +35,18 @@ export function readDesignFields(scenario: Scenario, _source?: string): DesignFi
   const maxCompatibilities = new Float64Array(n).fill(Infinity);
   const waitTarget = new Float64Array(n).fill(Infinity);
   const weight = new Float64Array(n).fill(1);
+  const maxAbandonment = new Float64Array(n).fill(NaN);
   scenario.classes.forEach((c, k) => {
     if (c.maxCompatibilities !== undefined) maxCompatibilities[k] = c.maxCompatibilities;
     if (c.waitTarget !== undefined) waitTarget[k] = c.waitTarget;
     if (c.weight !== undefined) weight[k] = c.weight;
+    if (c.maxAbandonment !== undefined) maxAbandonment[k] = c.maxAbandonment;
   });
   return {
     maxCompatibilities,
     waitTarget,
     weight,
+    maxAbandonment,
     mustKeep: scenario.mustKeep.map((r) => r.pair),
     forbidden: scenario.forbidden.map((r) => r.pair),
   };

@@ -35,11 +35,11 @@ export const classSchema = z.strictObject({
   label: text('a display name for people').optional(),
   group: text('a group the class belongs to (a unit, a region, a tier…), for reports').optional(),
   note: text('a remark for people').optional(),
-  patience: positive('mean patience in time units (exponential): items leave after it; simulate only').optional(),
+  patience: positive('mean patience in time units (exponential): items leave after it; simulated figures only').optional(),
   weight: nonNegative('weight in the weighted objective of recommend (default 1)').optional(),
   waitTarget: positive('recommend: the mean wait of the class must stay at or below this (time units)').optional(),
   maxCompatibilities: z.int().min(0).meta({ description: 'recommend: at most this many compatibilities touch the class (a self-loop counts once)' }).optional(),
-  maxAbandonment: z.number().min(0).lt(1).meta({ description: 'a limit on the share of the class’s items that abandon, in [0, 1)' }).optional(),
+  maxAbandonment: z.number().min(0).lt(1).meta({ description: 'a limit on the share of the class’s arrivals that abandon, in [0, 1); needs a patience; judged on simulated figures' }).optional(),
   rateCi95: z
     .tuple([nonNegative('low end'), nonNegative('high end')])
     .meta({ description: '95 % interval [low, high] of a fitted rate, low <= rate <= high' })

@@ -54,15 +54,23 @@ export function sweepCsv(r: SweepRecord): string {
  * objective (for the objective net-value, objective is the net value: higher is better).
  */
 export function recommendCsv(r: RecommendRecord): string {
+  type Row = RecommendRecord['pareto'][number] | RecommendRecord['baselines'][number];
   const values = [...r.pareto, ...r.baselines, r.today].some((d) => d.netValue !== null);
-  const v = (d: RecommendRecord['pareto'][number] | RecommendRecord['baselines'][number]): CsvCell[] => (values ? [d.valueRate, d.waitingCostRate, d.netValue] : []);
-  const head = ['kind', 'name', 'recommended', 'cost', 'method', 'backlog', 'objective', ...(values ? ['valueRate', 'waitingCostRate', 'netValue'] : []), 'maxWait', 'spareCapacity', 'frontAtCost', 'gap', 'feasible', 'added', 'removed'];
+  const v = (d: Row): CsvCell[] => (values ? [d.valueRate, d.waitingCostRate, d.netValue] : []);
+  // with abandonment limits judged: the share over all, the limited classes over their limit, and those within noise
+  const limits = [...r.pareto, ...r.baselines].some((d) => d.abandonmentLimits !== undefined);
+  const ids = (d: Row, pick: (l: NonNullable<Row['abandonmentLimits']>[number]) => boolean): string => asciiIds((d.abandonmentLimits ?? []).filter(pick).map((l) => l.class));
+  const l = (d: Row): CsvCell[] => (limits ? [d.abandonShare ?? null, d.abandonmentLimits ? ids(d, (x) => !x.within) : null, d.abandonmentLimits ? ids(d, (x) => x.withinNoise) : null] : []);
+  const head = [
+    'kind', 'name', 'recommended', 'cost', 'method', 'backlog', 'objective', ...(values ? ['valueRate', 'waitingCostRate', 'netValue'] : []), 'maxWait', 'spareCapacity',
+    ...(limits ? ['abandonShare', 'overAbandonmentLimit', 'abandonmentWithinNoise'] : []), 'frontAtCost', 'gap', 'feasible', 'added', 'removed',
+  ];
   const rows: CsvCell[][] = [];
   r.pareto.forEach((p, i) =>
-    rows.push(['pareto', `design ${i + 1}`, p.recommended, p.cost, p.method, p.backlog, p.objective, ...v(p), p.maxWait, p.spareCapacity, null, null, true, asciiPairs(p.added), asciiPairs(p.removed)]),
+    rows.push(['pareto', `design ${i + 1}`, p.recommended, p.cost, p.method, p.backlog, p.objective, ...v(p), p.maxWait, p.spareCapacity, ...l(p), null, null, true, asciiPairs(p.added), asciiPairs(p.removed)]),
   );
   for (const b of r.baselines) {
-    rows.push(['baseline', b.name, false, b.cost, b.method, b.backlog, b.objective, ...v(b), b.maxWait, b.spareCapacity, b.frontAtCost, b.gap, b.feasible, asciiPairs(b.added), asciiPairs(b.removed)]);
+    rows.push(['baseline', b.name, false, b.cost, b.method, b.backlog, b.objective, ...v(b), b.maxWait, b.spareCapacity, ...l(b), b.frontAtCost, b.gap, b.feasible, asciiPairs(b.added), asciiPairs(b.removed)]);
   }
   return renderCsv(head, rows, r.precision);
 }

@@ -49,11 +49,61 @@ export interface DesignFigures {
   readonly abandonShare?: number;
   readonly abandonShareByClass?: Record<string, number | null>;
   /**
+   * With maxAbandonment in the file and figures simulated with patience: each limited class's share
+   * against its limit. `within`: the share (point estimate) is at or below the limit; `withinNoise`:
+   * the 95 % interval contains the limit, so this simulation cannot tell which side it is on.
+   */
+  readonly abandonmentLimits?: AbandonmentLimit[];
+  /**
    * On a simulated front: this design's backlog minus the next cheaper design's, paired under
    * common random numbers, with its 95 % interval; `significant` when the interval excludes 0
    * (otherwise the two designs are not distinguishable by this simulation).
    */
   readonly vsCheaper?: { readonly backlogDifference: number; readonly ci95: [number, number] | null; readonly significant: boolean };
+}
+
+export interface AbandonmentLimit {
+  readonly class: string;
+  readonly limit: number;
+  readonly share: number;
+  readonly shareCi95: [number, number] | null;
+  readonly within: boolean;
+  readonly withinNoise: boolean;
+}
+
+/** Each limited class's simulated abandonment share against its maxAbandonment (null: no limit or no abandonment figures). */
+export function abandonmentLimits(
+  ids: readonly string[],
+  limits: ArrayLike<number> | undefined,
+  share: ArrayLike<number> | undefined,
+  lo?: ArrayLike<number>,
+  hi?: ArrayLike<number>,
+): AbandonmentLimit[] | null {
+  if (!limits || !share) return null;
+  const out: AbandonmentLimit[] = [];
+  for (let k = 0; k < ids.length; k++) {
+    const limit = limits[k]!;
+    if (Number.isNaN(limit)) continue;
+    const ci: [number, number] | null = lo && hi && Number.isFinite(lo[k]!) && Number.isFinite(hi[k]!) ? [lo[k]!, hi[k]!] : null;
+    out.push({ class: ids[k]!, limit, share: share[k]!, shareCi95: ci, within: share[k]! <= limit, withinNoise: ci !== null && ci[0] <= limit && limit <= ci[1] && ci[0] < ci[1] });
+  }
+  return out.length > 0 ? out : null;
+}
+
+/** The limits of the file against per-class simulated estimates (mean and 95 % interval per class). */
+export function limitsOfEstimates(
+  ids: readonly string[],
+  limits: ArrayLike<number> | undefined,
+  byClass: ReadonlyArray<{ readonly mean: number; readonly ci95: readonly [number, number] | null }>,
+): AbandonmentLimit[] | null {
+  const nan = (x: number): number => (Number.isFinite(x) ? x : NaN);
+  return abandonmentLimits(
+    ids,
+    limits,
+    byClass.map((e) => e.mean),
+    byClass.map((e) => nan(e.ci95 ? e.ci95[0] : NaN)),
+    byClass.map((e) => nan(e.ci95 ? e.ci95[1] : NaN)),
+  );
 }
 
 /** Added and dropped pairs of a design (forced removals of forbidden pairs first among the dropped). */
@@ -89,10 +139,17 @@ export function designFigures(problem: DesignProblem, d: DesignDetails, objectiv
     ...(d.stable && d.abandonShare && d.abandonShareTotal !== undefined && d.abandonShareTotal > 0
       ? { abandonShare: d.abandonShareTotal, abandonShareByClass: byClass(problem.ids, d.abandonShare) }
       : {}),
+    ...limitsOf(problem, d),
     ...(d.vsCheaper && Number.isFinite(d.vsCheaper.mean)
       ? { vsCheaper: { backlogDifference: d.vsCheaper.mean, ci95: d.vsCheaper.ci95 ? [d.vsCheaper.ci95[0], d.vsCheaper.ci95[1]] : null, significant: d.vsCheaper.significant } }
       : {}),
   };
+}
+
+function limitsOf(problem: DesignProblem, d: DesignDetails): { abandonmentLimits?: AbandonmentLimit[] } {
+  if (!d.stable || d.method !== 'simulation') return {};
+  const l = abandonmentLimits(problem.ids, problem.maxAbandonment, d.abandonShare, d.abandonShareLo, d.abandonShareHi);
+  return l ? { abandonmentLimits: l } : {};
 }
 
 /** Value rate, waiting cost rate and net value of a design (null when not applicable). */

@@ -16,7 +16,8 @@ import { supportedDigits } from '../output/format.js';
 import { recordBase, type ScenarioContext } from './context.js';
 import { instabilityOf } from './instability.js';
 import { byClass, idsOf, pairIds, type InstabilityRecord, type RepairRecord, type PairIds, type RecordBase, type Reference } from './records.js';
-import { exactWarnings, valueWarnings } from './warnings.js';
+import { exactWarnings, limitsIgnoredWarning, valueWarnings } from './warnings.js';
+import { limitsOfEstimates, type AbandonmentLimit } from './designs.js';
 import { edgeValues } from '../model/values.js';
 
 export interface MatchRateRecord {
@@ -67,6 +68,8 @@ export interface EvaluateRecord extends RecordBase {
   readonly matchedAtOnceCi95?: [number, number];
   /** Simulated with patience: the share of arrivals that abandon. */
   readonly abandonShare?: { readonly total: number; readonly ci95: [number, number] | null; readonly byClass: Record<string, number | null> };
+  /** Simulated with patience and maxAbandonment in the file: each limited class's share against its limit. */
+  readonly abandonmentLimits?: AbandonmentLimit[];
   readonly independentSets: number | null;
   /** Mean number of items waiting: in all, and per class. */
   readonly backlog: { readonly total: number; readonly byClass: Record<string, number | null> } | null;
@@ -111,6 +114,9 @@ export async function evaluateUseCase(ctx: ScenarioContext, options: EvaluateOpt
   const model = ctx.model;
   const stability = checkStability(model);
   const warnings = [...exactWarnings(ctx), ...(ctx.values.any && stability.stable ? valueWarnings(ctx) : [])];
+  // the simulated path replaces these warnings and compares each share with its limit
+  const ignored = limitsIgnoredWarning(ctx);
+  if (ignored) warnings.push(ignored);
   const base = { ...recordBase(ctx, 'evaluate', warnings), reference: ctx.reference, method: 'exact' as const };
   if (!stability.stable) {
     const instability = await instabilityOf(ctx, certificateWithIds(model, stability.certificate!));
@@ -221,6 +227,7 @@ async function simulatedEvaluation(
   }
   const b = stability.bottleneck;
   const impatient = patience !== undefined;
+  const limits = impatient ? limitsOfEstimates(ids, ctx.problem.maxAbandonment, s.abandonShare.byClass) : null;
   const warnings = [demandNote(ctx)].filter((w): w is string => w !== null);
   const backlogCi = pairOf(s.backlog.total.ci95);
   const waitCi = pairOf(s.wait.total.ci95);
@@ -244,6 +251,7 @@ async function simulatedEvaluation(
     waitByClassCi95: intervals(ids, s.backlog.byClass.map((e, k) => ({ ci95: e.ci95 ? ([e.ci95[0] / model.rates[k]!, e.ci95[1] / model.rates[k]!] as const) : null }))),
     matchedAtOnce: { total: s.immediateMatch.total.mean, byClass: byClass(ids, s.immediateMatch.byClass.map((e) => e.mean)) },
     ...(atOnceCi ? { matchedAtOnceCi95: atOnceCi } : {}),
+    ...(limits ? { abandonmentLimits: limits } : {}),
     ...(impatient ? { abandonShare: { total: s.abandonShare.total.mean, ci95: pairOf(s.abandonShare.total.ci95), byClass: byClass(ids, s.abandonShare.byClass.map((e) => e.mean)) } } : {}),
     emptyProbability: null,
     matchRates: Array.from({ length: model.m }, (_, e) => ({

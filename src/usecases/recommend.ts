@@ -82,6 +82,8 @@ export interface RecommendRecord extends RecordBase, DecisionPart {
     readonly harmfulRefused: number;
     /** The search stopped at this limit of designs scored (null: it ran to its end). */
     readonly designLimit: number | null;
+    /** With maxAbandonment in the file: Pareto designs of the search dropped as over a limit by the final re-score. */
+    readonly overLimitAfterRescore?: number;
     readonly cheapestStableCost: number;
     readonly milp: { readonly cheapest: MilpEntry; readonly ladder: Array<{ readonly budget: number; readonly design: MilpEntry | null }> };
   };
@@ -143,6 +145,32 @@ export function decisionPart(ctx: ScenarioContext, input: RecommendInput, parts:
   };
 }
 
+/** What the Pareto set did with the file's maxAbandonment limits: said whenever the file has one. */
+export function limitWarnings(ctx: ScenarioContext, rec: Recommendation): string[] {
+  const limits = ctx.problem.maxAbandonment;
+  const limited = limits ? ctx.problem.ids.filter((_, k) => !Number.isNaN(limits[k]!)) : [];
+  if (limited.length === 0) return [];
+  const who = `${limited.length === 1 ? 'class' : 'classes'} ${limited.slice(0, 4).join(', ')}${limited.length > 4 ? ` and ${limited.length - 4} more` : ''}`;
+  if (!rec.limitsChecked) {
+    return [
+      `The abandonment limits (maxAbandonment of ${who}) were not checked: these figures have no abandonment (exact scoring assumes patient items), so a design may be over a limit; use --score auto or simulation to honour them.`,
+    ];
+  }
+  const noisy = rec.pareto.filter((d) => d.stable && d.abandonShareLo && d.abandonShareHi && straddles(limits!, d.abandonShare!, d.abandonShareLo, d.abandonShareHi)).length;
+  const dropped = rec.overLimitAfterRescore ?? 0;
+  return [
+    `Abandonment limits (maxAbandonment of ${who}) checked on the simulated shares: designs over a limit were kept out of the Pareto set` +
+      (dropped > 0 ? `; ${dropped} design${dropped === 1 ? '' : 's'} the search admitted ${dropped === 1 ? 'was' : 'were'} over a limit in the longer re-score and dropped` : '') +
+      (noisy > 0 ? `; ${noisy} design${noisy === 1 ? "'s" : "s'"} interval contains a limit (within noise: the simulation cannot tell which side)` : '') +
+      '.',
+  ];
+}
+
+function straddles(limits: ArrayLike<number>, share: ArrayLike<number>, lo: ArrayLike<number>, hi: ArrayLike<number>): boolean {
+  for (let k = 0; k < limits.length; k++) if (!Number.isNaN(limits[k]!) && share[k]! <= limits[k]! && lo[k]! <= limits[k]! && limits[k]! <= hi[k]! && lo[k]! < hi[k]!) return true;
+  return false;
+}
+
 export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInput): Promise<RecommendRecord> {
   const p = ctx.problem;
   if (needsMatchRates(input.objective) && !p.hasValues) throw new UsageError(NO_VALUES_MESSAGE);
@@ -180,6 +208,7 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
     ...(input.score === undefined || input.score === 'exact' ? exactWarnings(ctx, 'The figures of every design') : scoringWarnings(ctx, input.score, rec, simulatedFront)),
     ...(p.hasValues ? valueWarnings(ctx) : []),
     rec.partial ? 'interrupted: the Pareto set is what the search had found so far; designs not yet checked for harmful paid compatibilities may be in it, and no verdicts were computed' : null,
+    ...limitWarnings(ctx, rec),
     rec.designLimit !== undefined
       ? `the search stopped at its limit of ${rec.designLimit} designs scored (--max-designs): designs it did not reach may be better, and designs not yet checked for harmful paid compatibilities may be in the Pareto set`
       : null,
@@ -210,6 +239,7 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
       exhaustive: rec.exhaustive,
       harmfulRefused: rec.harmfulRefused,
       designLimit: rec.designLimit ?? null,
+      ...(rec.overLimitAfterRescore === undefined ? {} : { overLimitAfterRescore: rec.overLimitAfterRescore }),
       cheapestStableCost: rec.milp.cheapest.cost,
       milp: { cheapest: milpEntry(rec.milp.cheapest), ladder: rec.milp.ladder.map((l) => ({ budget: l.budget, design: l.design ? milpEntry(l.design) : null })) },
     },

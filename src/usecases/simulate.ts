@@ -14,6 +14,7 @@ import { certificateWithIds } from '../stability/certificate.js';
 import { recordBase, type ScenarioContext } from './context.js';
 import { certificateRecord, finite, pairIds, type CertificateRecord, type PairIds, type RecordBase, type Reference } from './records.js';
 import { demandNote } from './warnings.js';
+import { limitsOfEstimates, type AbandonmentLimit } from './designs.js';
 
 /** A simulated mean with its 95 % interval across replications (null with one replication), and the exact value when known. */
 export interface EstimateRecord {
@@ -55,6 +56,8 @@ export interface SimulateRecord extends RecordBase {
   readonly wait: { readonly total: WaitRecord; readonly byClass: Record<string, WaitRecord> };
   readonly matchedAtOnce: { readonly total: EstimateRecord; readonly byClass: Record<string, EstimateRecord> };
   readonly matchRates: Array<{ readonly pair: PairIds; readonly rate: EstimateRecord }>;
+  /** With maxAbandonment in the file: each limited class's simulated share against its limit. */
+  readonly abandonmentLimits?: AbandonmentLimit[];
   readonly abandonment: {
     readonly total: { readonly rate: EstimateRecord; readonly share: EstimateRecord };
     readonly byClass: Record<string, { readonly patience: number | null; readonly rate: EstimateRecord; readonly share: EstimateRecord }>;
@@ -158,6 +161,7 @@ export async function simulateUseCase(ctx: ScenarioContext, input: SimulateInput
     for (let k = 0; k < model.n; k++) s += model.rates[k]! * x.immediateMatch[k]!;
     immediateExact = s / model.totalRate;
   }
+  const limits = limitsOfEstimates(ids, ctx.problem.maxAbandonment, r.abandonShare.byClass);
   const warnings = [demandNote(ctx), stability.note, r.partial ? `interrupted: ${r.replications} of ${r.planned} replications finished; the figures come from those` : null];
   return {
     ...recordBase(ctx, 'simulate', warnings),
@@ -179,6 +183,7 @@ export async function simulateUseCase(ctx: ScenarioContext, input: SimulateInput
     wait: { total: waitRec(r.wait.total, x ? x.backlogTotal / model.totalRate : undefined), byClass: by((k) => waitRec(r.wait.byClass[k]!, x?.wait[k])) },
     matchedAtOnce: { total: est(r.immediateMatch.total, immediateExact), byClass: by((k) => est(r.immediateMatch.byClass[k]!, x?.immediateMatch[k])) },
     matchRates: r.matchRates.map((e, i) => ({ pair: pairIds(model, model.edgeA[i]!, model.edgeB[i]!), rate: est(e, x?.matchRates[i]) })),
+    ...(limits ? { abandonmentLimits: limits } : {}),
     abandonment: {
       total: { rate: est(r.abandonRate.total), share: est(r.abandonShare.total) },
       byClass: by((k) => ({ patience: Number.isFinite(r.patience[k]!) ? r.patience[k]! : null, rate: est(r.abandonRate.byClass[k]!), share: est(r.abandonShare.byClass[k]!) })),

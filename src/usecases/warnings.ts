@@ -69,3 +69,14 @@ export function scoringWarnings(
   out.push(demandNote(ctx));
   return out.filter((w): w is string => w !== null);
 }
+
+/**
+ * The file's maxAbandonment limits, when the figures printed have no abandonment (exact figures):
+ * said, never silently ignored. Null when the file has none.
+ */
+export function limitsIgnoredWarning(ctx: ScenarioContext, what = 'These exact figures'): string | null {
+  const limited = ctx.scenario.classes.filter((c) => c.maxAbandonment !== undefined).map((c) => c.id);
+  if (limited.length === 0) return null;
+  const who = `${limited.length === 1 ? 'class' : 'classes'} ${limited.slice(0, 4).join(', ')}${limited.length > 4 ? ` and ${limited.length - 4} more` : ''}`;
+  return `${what} do not check the abandonment limits (maxAbandonment of ${who}): they have no abandonment; simulated figures (--score auto or simulation, or \`edgewise simulate\`) compare each share with its limit.`;
+}

@@ -24,6 +24,8 @@ export interface RandomScenarioOptions {
   readonly rules?: boolean;
   /** Give some classes a patience. */
   readonly patience?: boolean;
+  /** With patience: give every other class with a patience a maxAbandonment (drawn in [0.02, 0.3)). */
+  readonly abandonmentLimits?: boolean;
   /** Budget as a share of the candidates' total cost (absent: no budget). */
   readonly budgetShare?: number;
   /** Long labels (to exercise wrapping). */
@@ -93,6 +95,7 @@ export function randomScenario(seed: number, o: RandomScenarioOptions): RandomSc
     rate: Number(rates[k]!.toFixed(4)),
     ...(o.labels ? { label: `Site ${Math.floor(k / o.perGroup) + 1}, ${['early', 'day', 'late', 'night', 'weekend', 'on call'][k % 6]} shift (${k})` } : {}),
     ...(o.patience && k % 4 === 1 ? { patience: rng.uniform(0.5, 3) } : {}),
+    ...(o.patience && o.abandonmentLimits && k % 8 === 1 ? { maxAbandonment: rng.uniform(0.02, 0.3) } : {}),
   }));
   const doc: Record<string, unknown> = {
     name: `random scenario ${seed}`,

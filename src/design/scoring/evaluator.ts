@@ -40,7 +40,12 @@ export interface DesignRecord {
   readonly targetRatio: number;
   /** Within the budget and maxCompatibilities. */
   readonly withinLimits: boolean;
-  /** Within budget and limits, stable, meets every wait target: may enter the Pareto archive. */
+  /**
+   * Simulated with patience: the share of some limited class's arrivals that abandon is above its
+   * maxAbandonment (point estimate of the search's run). False when the figures have no abandonment.
+   */
+  readonly overAbandonmentLimit: boolean;
+  /** Within budget and limits, stable, meets every wait target and abandonment limit: may enter the Pareto archive. */
   readonly feasible: boolean;
   /** Independent sets of the design (0 when refused before the exact recursion). */
   readonly independentSets: number;
@@ -150,7 +155,8 @@ export class DesignEvaluator {
     }
     const within = admissibleBeforeEvaluation(p, design);
     const value = { valueRate: s.valueRate, waitingCost: p.waitingCost };
-    const objective = s.stable ? objectiveValue(this.objective, s.backlogTotal, s.backlog ?? undefined, p.rates, p.weight, value) : NaN;
+    const objective = s.stable ? objectiveValue(this.objective, s.backlogTotal, s.backlog ?? undefined, p.rates, p.weight, value, s.abandonShareTotal) : NaN;
+    const over = s.stable && overAbandonmentLimit(p, s.abandonShare);
     return {
       key,
       design,
@@ -165,7 +171,8 @@ export class DesignEvaluator {
       meetsTargets: meets,
       targetRatio: ratio,
       withinLimits: within,
-      feasible: within && s.stable && meets,
+      overAbandonmentLimit: over,
+      feasible: within && s.stable && meets && !over,
       independentSets: s.independentSets,
       ...(s.method ? { method: s.method } : {}),
       ...(s.backlogCi95 !== undefined ? { backlogCi95: s.backlogCi95 } : {}),
@@ -239,6 +246,14 @@ export class DesignEvaluator {
     out.forEach((s, t) => at[t]!.forEach((i, q) => (scores[i] = s[q]!)));
     return scores;
   }
+}
+
+/** True when some class with a maxAbandonment has a (simulated) abandonment share above it. */
+export function overAbandonmentLimit(p: DesignProblem, share: ArrayLike<number> | undefined): boolean {
+  const limit = p.maxAbandonment;
+  if (!limit || !share) return false;
+  for (let k = 0; k < p.n; k++) if (share[k]! > limit[k]!) return true; // NaN (no limit) never compares true
+  return false;
 }
 
 /** Throws when the design does not differ from its origin by exactly the named toggle. */

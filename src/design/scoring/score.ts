@@ -61,6 +61,10 @@ export interface SimulatedFigures {
   /** Simulated with patience: share of arrivals that abandon, per class and over all. */
   readonly abandonShare?: Float64Array;
   readonly abandonShareTotal?: number;
+  /** Simulated with patience: ends of the 95 % interval of each class's share, and of the share over all. */
+  readonly abandonShareLo?: Float64Array;
+  readonly abandonShareHi?: Float64Array;
+  readonly abandonShareCi95?: Interval | null;
 }
 
 export interface Score extends SimulatedFigures {
@@ -144,6 +148,7 @@ export function simulatedScore(spec: ScoreSpec, model: CompiledModel): Score {
       perReplication: f.perReplication,
       abandonShare: f.abandonShare,
       abandonShareTotal: f.abandonShareTotal,
+      ...(f.impatient ? { abandonShareLo: f.abandonShareLo, abandonShareHi: f.abandonShareHi, abandonShareCi95: f.abandonShareCi95 } : {}),
       ...(spec.perClass ? { backlogLo: f.backlogLo, backlogHi: f.backlogHi } : {}),
     };
   } catch (e) {

@@ -63,6 +63,9 @@ export interface SimFigures {
   readonly perReplication: Float64Array;
   /** Share of arrivals that abandon, per class and over all (0 without patience). */
   readonly abandonShare: Float64Array;
+  /** Ends of the 95 % interval of each class's abandonment share (the mean itself when no interval; 0 without patience). */
+  readonly abandonShareLo: Float64Array;
+  readonly abandonShareHi: Float64Array;
   readonly abandonShareTotal: number;
   readonly abandonShareCi95: Interval | null;
   /** Share matched on arrival, per class. */
@@ -116,13 +119,20 @@ export function simulateDesign(original: CompiledModel, plan: SimPlan, patience?
   const lo = new Float64Array(n);
   const hi = new Float64Array(n);
   const abandonShare = new Float64Array(n);
+  const abandonLo = new Float64Array(n);
+  const abandonHi = new Float64Array(n);
   const immediate = new Float64Array(n);
   for (let k = 0; k < n; k++) {
     const e = estimate(perClass[k]!);
     backlog[k] = e.mean;
     lo[k] = e.ci95 ? e.ci95[0] : e.mean;
     hi[k] = e.ci95 ? e.ci95[1] : e.mean;
-    abandonShare[k] = sim.impatient ? estimate(abandonPer[k]!).mean : 0;
+    if (sim.impatient) {
+      const a = estimate(abandonPer[k]!);
+      abandonShare[k] = a.mean;
+      abandonLo[k] = a.ci95 ? a.ci95[0] : a.mean;
+      abandonHi[k] = a.ci95 ? a.ci95[1] : a.mean;
+    }
     immediate[k] = estimate(immPer[k]!).mean;
   }
   const ab = estimate(abandonTot);
@@ -136,6 +146,8 @@ export function simulateDesign(original: CompiledModel, plan: SimPlan, patience?
     backlogHi: hi,
     perReplication: totals,
     abandonShare,
+    abandonShareLo: abandonLo,
+    abandonShareHi: abandonHi,
     abandonShareTotal: sim.impatient ? ab.mean : 0,
     abandonShareCi95: sim.impatient ? ci(ab) : null,
     immediate,

@@ -25,13 +25,13 @@ import { valueRate as sumValue } from '../../model/values.js';
 import { checkStability } from '../../stability/check.js';
 import { seededRandom } from '../../random.js';
 import { baselines as buildBaselines, type BaselineName } from './baselines.js';
-import { DesignEvaluator, scoreSpecOf, type DesignRecord, type ScoringChoice } from '../scoring/evaluator.js';
-import { simulatesAlways, type Score, type ScoreMethod, type SimulatedFigures } from '../scoring/score.js';
+import { DesignEvaluator, overAbandonmentLimit, scoreSpecOf, type DesignRecord, type ScoringChoice } from '../scoring/evaluator.js';
+import { hasPatience, simulatesAlways, type Score, type ScoreMethod, type SimulatedFigures } from '../scoring/score.js';
 import { pairedDifference, reportPlan, searchPlan, type PairedDifference } from '../scoring/sim-score.js';
 import { exhaustiveSearch, MAX_EXHAUSTIVE_TOGGLES } from './exhaustive.js';
 import { paretoLocalSearch } from './local-search.js';
 import { budgetLadder, cheapestStableDesign, maxMinFlowDesign, type MilpDesign } from './milp.js';
-import { needsMatchRates, objectiveValue, type ObjectiveName } from '../space/objective.js';
+import { needsMatchRates, needsSimulation, objectiveValue, type ObjectiveName } from '../space/objective.js';
 import { frontValueAt, paretoFront } from '../space/pareto.js';
 import { penaltyBatch, penaltyVerdict } from '../space/penalty.js';
 import { createScorer, inThreadScorer, SearchStopped, workerScriptUrl } from '../scoring/scorer.js';
@@ -182,6 +182,19 @@ export interface Recommendation {
   readonly simulated?: number;
   /** The search stopped at its limit of designs (`maxDesigns`): the value of that limit. */
   readonly designLimit?: number;
+  /**
+   * The file's maxAbandonment limits were judged (designs simulated with patience): designs over a
+   * limit were kept out of the Pareto set. False when the file has limits but the figures have no
+   * abandonment (exact figures); absent when the file has none.
+   */
+  readonly limitsChecked?: boolean;
+  /** Pareto designs of the search dropped because the final re-score put them over an abandonment limit. */
+  readonly overLimitAfterRescore?: number;
+}
+
+/** True when some class of the problem has a maxAbandonment. */
+export function hasAbandonmentLimits(problem: DesignProblem): boolean {
+  return problem.maxAbandonment?.some((x) => !Number.isNaN(x)) ?? false;
 }
 
 /**
@@ -214,6 +227,12 @@ export function defaultDesignLimit(simulated: boolean, firstSets: readonly numbe
 /** Why `--objective net-value` is refused on a file without values. */
 export const NO_VALUES_MESSAGE =
   '--objective net-value needs values: no compatibility or candidate of the scenario has a "value" (per match) and the file gives no "waitingCost"; add them (docs/scenario-format.md, "Value per match") or choose another objective';
+
+/** Why `--objective abandonment` is refused: exact figures have no abandonment. */
+export const NO_ABANDONMENT_MESSAGE = (exact: boolean): string =>
+  exact
+    ? '--objective abandonment needs simulated figures with patience; --score exact has no abandonment: use --score auto or simulation'
+    : '--objective abandonment needs a "patience" on some class: without patience no item abandons, so the share is 0 for every design; add patience (docs/scenario-format.md) or choose another objective';
 
 /** "add a ↔ b, c ↔ d; drop e ↔ f" for messages (the one text notation of a pair). */
 export function describeChanges(problem: DesignProblem, design: Uint8Array): string {
@@ -286,7 +305,7 @@ export function detailsOfScore(problem: DesignProblem, objective: ObjectiveName,
     added,
     removed,
     stable: true,
-    objective: objectiveValue(objective, s.backlogTotal, backlog, problem.rates, problem.weight),
+    objective: objectiveValue(objective, s.backlogTotal, backlog, problem.rates, problem.weight, undefined, s.abandonShareTotal),
     valueRate: NaN,
     backlogTotal: s.backlogTotal,
     backlog,
@@ -300,6 +319,7 @@ export function detailsOfScore(problem: DesignProblem, objective: ObjectiveName,
     ...(s.backlogLo && s.backlogHi ? { waitLo: Float64Array.from(s.backlogLo, (b, k) => b / problem.rates[k]!), waitHi: Float64Array.from(s.backlogHi, (b, k) => b / problem.rates[k]!) } : {}),
     ...(s.perReplication ? { perReplication: s.perReplication } : {}),
     ...(s.abandonShare ? { abandonShare: s.abandonShare, abandonShareTotal: s.abandonShareTotal ?? 0 } : {}),
+    ...(s.abandonShareLo && s.abandonShareHi ? { abandonShareLo: s.abandonShareLo, abandonShareHi: s.abandonShareHi, abandonShareCi95: s.abandonShareCi95 ?? null } : {}),
   };
 }
 
@@ -349,6 +369,9 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
     );
   }
   const method = options.score ?? 'exact';
+  if (needsSimulation(objective) && (method === 'exact' || !hasPatience(options.patience))) {
+    throw new UsageError(NO_ABANDONMENT_MESSAGE(method === 'exact'));
+  }
   const seed = options.seed ?? 1;
   const choice = (plan: ScoringChoice['sim']): ScoringChoice | undefined =>
     method === 'exact' ? undefined : { method, sim: plan, ...(options.patience ? { patience: options.patience } : {}) };
@@ -457,7 +480,18 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       const byKey = new Map(batch.map((d, i) => [designKey(d), scores[i]!] as const));
       details = (design) => detailsOfScore(problem, objective, design, byKey.get(designKey(design))!, options.maxSets);
     }
-    const rescored = front.map((r) => details(r.design));
+    const limited = hasAbandonmentLimits(problem);
+    const rescoredAll = front.map((r) => details(r.design));
+    // the search admitted designs within every abandonment limit on its short run; the longer run
+    // may put some over: they leave the set (counted), those whose interval straddles a limit stay, flagged
+    const rescored = rescoredAll.filter((d) => !(d.stable && overAbandonmentLimit(problem, d.abandonShare)));
+    const overLimitAfterRescore = rescoredAll.length - rescored.length;
+    const limitsChecked = limited && rescoredAll.some((d) => d.abandonShare !== undefined && d.method === 'simulation');
+    if (rescored.length === 0) {
+      throw new InfeasibleDesignError(
+        `every design the search found within the abandonment limits (maxAbandonment) is over a limit when simulated longer (${overLimitAfterRescore} design${overLimitAfterRescore === 1 ? '' : 's'}); raise a limit, or try another --seed`,
+      );
+    }
     // the front of the re-scored figures (noise in the search's figures may have let a dominated design in)
     const pareto = withComparisons(
       finalSpec ? paretoFront(rescored.filter((d) => d.stable).map((d) => ({ d, cost: d.cost, objective: d.objective, changes: d.added.length + d.removed.length, key: d.key }))).map((x) => x.d) : rescored,
@@ -474,7 +508,7 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       const verdict = rec.stable ? penaltyVerdict(problem, b.design, rec.objective, (key) => after.get(key)) : { known: true, harmful: [] };
       const inBudget = withinBudget(problem, b.design);
       const inLimits = degreesAllowed(problem, b.design);
-      const feasible = detailsB.stable && inBudget && inLimits && rec.meetsTargets;
+      const feasible = detailsB.stable && inBudget && inLimits && rec.meetsTargets && !overAbandonmentLimit(problem, detailsB.abandonShare);
       const frontValue = frontValueAt(pareto, detailsB.cost);
       return {
         ...detailsB,
@@ -506,6 +540,7 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       today: details(Uint8Array.from(problem.today)),
       simulated,
       ...(designLimit === undefined ? {} : { designLimit }),
+      ...(limited ? { limitsChecked, overLimitAfterRescore } : {}),
     };
   } finally {
     await scorer.close();

@@ -7,15 +7,18 @@
  * - `net-value`: the net value rate V − c·L, where V = Σ_pairs value · (exact match rate along the
  *   pair) and c the scenario's `waitingCost` (src/model/values.ts). Higher is better, so the number
  *   minimised is its negative, c·L − V; records and outputs show the net value itself
- *   (`objectiveSign`).
+ *   (`objectiveSign`);
+ * - `abandonment`: the share of all arrivals that abandon, Σ_k (abandonments of k) / Σ_k arrivals of
+ *   k, from a simulation with the file's patience (the exact figures have no abandonment, so it is
+ *   refused with `--score exact` and on a file without patience: `needsSimulation`).
  */
-export type ObjectiveName = 'total' | 'weighted' | 'max-wait' | 'net-value';
+export type ObjectiveName = 'total' | 'weighted' | 'max-wait' | 'net-value' | 'abandonment';
 
-export const OBJECTIVES: readonly ObjectiveName[] = ['total', 'weighted', 'max-wait', 'net-value'];
+export const OBJECTIVES: readonly ObjectiveName[] = ['total', 'weighted', 'max-wait', 'net-value', 'abandonment'];
 
 /** Human name of an objective (table headers). */
 export function objectiveLabel(name: ObjectiveName): string {
-  return name === 'total' ? 'total backlog' : name === 'weighted' ? 'weighted backlog' : name === 'max-wait' ? 'largest mean wait' : 'net value';
+  return name === 'total' ? 'total backlog' : name === 'weighted' ? 'weighted backlog' : name === 'max-wait' ? 'largest mean wait' : name === 'abandonment' ? 'abandonment share' : 'net value';
 }
 
 /** Which way is better for the objective as shown: lower backlog or wait, higher net value. */
@@ -30,7 +33,12 @@ export function objectiveSign(name: ObjectiveName): 1 | -1 {
 
 /** True when the objective (or a wait target) needs per-class figures, i.e. the full evaluation. */
 export function needsPerClass(name: ObjectiveName, hasWaitTargets: boolean): boolean {
-  return name !== 'total' || hasWaitTargets;
+  return (name !== 'total' && name !== 'abandonment') || hasWaitTargets;
+}
+
+/** True when the objective exists only in simulated figures with patience (the abandonment share). */
+export function needsSimulation(name: ObjectiveName): boolean {
+  return name === 'abandonment';
 }
 
 /** True when the objective needs the exact match rate of every pair (the value rate). */
@@ -57,8 +65,14 @@ export function objectiveValue(
   rates: ArrayLike<number>,
   weight: ArrayLike<number>,
   value?: ValueTerms,
+  /** The share of all arrivals that abandon (simulated with patience), for `abandonment`. */
+  abandonShareTotal?: number,
 ): number {
   if (name === 'total') return backlogTotal;
+  if (name === 'abandonment') {
+    if (abandonShareTotal === undefined || !Number.isFinite(abandonShareTotal)) throw new RangeError('objective abandonment needs a simulated abandonment share');
+    return abandonShareTotal;
+  }
   if (name === 'net-value') {
     if (!value || !Number.isFinite(value.valueRate)) throw new RangeError('objective net-value needs the value rate');
     return value.waitingCost * backlogTotal - value.valueRate;

@@ -59,6 +59,11 @@ export interface DesignProblem {
   readonly waitTarget: Float64Array;
   /** Per class: weight of the weighted objective. */
   readonly weight: Float64Array;
+  /**
+   * Per class: most share of its arrivals that may abandon (NaN when none). Judged on simulated
+   * figures with patience only (the exact figures have no abandonment); absent: no limit.
+   */
+  readonly maxAbandonment?: Float64Array;
   /** Today's design: removable compatibilities on, candidates off. */
   readonly today: Uint8Array;
   /** Value per match of each fixed pair (0 when the file gives none; src/model/values.ts). */
@@ -127,6 +132,7 @@ export function designProblem(scenario: Scenario, fields: DesignFields, budget?:
     fixedDegree,
     waitTarget: Float64Array.from(fields.waitTarget),
     weight: Float64Array.from(fields.weight),
+    maxAbandonment: Float64Array.from(fields.maxAbandonment),
     today,
     fixedValue: Float64Array.from(fixedValue),
     waitingCost: values.waitingCost,

@@ -1,6 +1,7 @@
 /** Blocks several text renderers share: which design a record is about, instability and repairs. */
 import type { InstabilityRecord, PairIds, Reference, SetRecord } from '../../usecases/records.js';
-import { listWords, num, pairText, perUnit, rate, setText } from '../format.js';
+import { listWords, num, pairText, perUnit, pct, rate, setText } from '../format.js';
+import type { AbandonmentLimit } from '../../usecases/designs.js';
 import { para, tableBlock, type Block } from './doc.js';
 
 /** "today's design" / "the design in D.json (+ a ↔ b, − c ↔ d)", with the demand when not today's. */
@@ -68,4 +69,13 @@ export function instabilityBlocks(ins: InstabilityRecord, timeUnit: string, cost
     blocks.push(para('No allowed candidate makes the design stable.'));
   }
   return blocks;
+}
+
+/** "Abandonment limits: a 3.1 % (2.5–3.8 %) within 5 %; b 12.0 % over 10 %." (null without limits). */
+export function abandonmentLimitsBlock(limits: readonly AbandonmentLimit[] | undefined): Block | null {
+  if (!limits || limits.length === 0) return null;
+  const one = (l: AbandonmentLimit): string =>
+    `${l.class} ${pct(l.share)}${l.shareCi95 ? ` (${pct(l.shareCi95[0])}–${pct(l.shareCi95[1])})` : ''} ${l.within ? (l.withinNoise ? 'within (noise: the interval contains the limit)' : 'within') : l.withinNoise ? 'over (noise: the interval contains the limit)' : 'OVER'} ${pct(l.limit)}`;
+  const over = limits.filter((l) => !l.within).length;
+  return para(`Abandonment limits (maxAbandonment; simulated share of each class's arrivals that give up, 95 % interval): ${limits.map(one).join('; ')}.${over > 0 ? ` ${over} of ${limits.length} over the limit.` : ''}`);
 }

@@ -1,6 +1,6 @@
 import type { EvaluateRecord } from '../../usecases/evaluate.js';
 import { count, estimate, num, pairText, pct, perUnit, rate, setText, wait, waitScale, type WaitScale } from '../format.js';
-import { instabilityBlocks, referenceWords } from './common.js';
+import { abandonmentLimitsBlock, instabilityBlocks, referenceWords } from './common.js';
 import { para, tableBlock, title, type Block } from './doc.js';
 
 export interface EvaluateTextOptions {
@@ -87,6 +87,8 @@ export function evaluateText(r: EvaluateRecord, o: EvaluateTextOptions): Block[]
           ` · ${m.replications} replications of ${count(m.arrivals)} arrivals, seed ${m.seed}${m.abandonment ? ', with abandonment' : ''} · ± : half-width of the 95 % interval`,
       ),
     );
+    const limits = abandonmentLimitsBlock(r.abandonmentLimits);
+    if (limits) blocks.push(limits);
     blocks.push(...valueBlocks(r));
     return blocks;
   }

@@ -23,7 +23,7 @@ const ADVICE_WORDS: Record<string, string> = {
 /** The objective's value in words: a backlog, or a wait in the wait scale. */
 function objectiveValue(d: DecisionPart, x: number | null, scale: WaitScale): string {
   if (x === null) return '—';
-  return d.objective === 'max-wait' ? wait(x, scale) : num(x);
+  return d.objective === 'max-wait' ? wait(x, scale) : d.objective === 'abandonment' ? pct(x) : num(x);
 }
 
 function deltaText(d: DecisionPart, v: VerdictRecord | undefined, scale: WaitScale): string {
@@ -77,7 +77,18 @@ export function recommendedWords(d: DecisionPart, scale: WaitScale): string {
   return `Recommended (${r.why}): ${changes} · cost ${money(r.cost, d.costUnit)} · ${d.objectiveLabel} ${objectiveValue(d, r.objective, scale)} (today: ${today}).`;
 }
 
-function frontRow(d: DecisionPart, e: DesignFigures & { recommended?: boolean }, i: number, scale: WaitScale, simulated = false): string[] {
+/** The abandonment limits of a design in a few words: "within", "noise: a, b" or "over: a". */
+function limitsCell(e: DesignFigures): string {
+  const l = e.abandonmentLimits;
+  if (!l) return '—';
+  const list = (xs: string[]): string => (xs.length > 2 ? `${xs.slice(0, 2).join(', ')} +${xs.length - 2}` : xs.join(', '));
+  const over = l.filter((x) => !x.within).map((x) => x.class);
+  if (over.length > 0) return `over: ${list(over)}`;
+  const noise = l.filter((x) => x.withinNoise).map((x) => x.class);
+  return noise.length > 0 ? `noise: ${list(noise)}` : 'within';
+}
+
+function frontRow(d: DecisionPart, e: DesignFigures & { recommended?: boolean }, i: number, scale: WaitScale, simulated = false, abandon = false, limits = false): string[] {
   return [
     `${e.recommended ? '→ ' : ''}${i + 1}`,
     num(e.cost),
@@ -86,6 +97,8 @@ function frontRow(d: DecisionPart, e: DesignFigures & { recommended?: boolean },
     ...(d.objective === 'net-value' ? [e.valueRate === null ? '—' : num(e.valueRate)] : []),
     e.maxWait === null ? '—' : `${wait(e.maxWait, scale)} (${e.maxWaitClass})`,
     e.spareCapacity === null ? '—' : num(e.spareCapacity),
+    ...(abandon ? [e.abandonShare === undefined ? '—' : pct(e.abandonShare)] : []),
+    ...(limits ? [limitsCell(e)] : []),
     ...(simulated ? [e.vsCheaper ? (e.vsCheaper.significant ? (e.vsCheaper.backlogDifference < 0 ? 'lower' : 'higher') : 'not distinguishable') : i === 0 ? '' : '—'] : []),
     changesText(e.added, e.removed),
   ];
@@ -97,6 +110,8 @@ export function recommendText(r: RecommendRecord, o: { readonly waitUnit?: strin
   const budget = r.budget === null ? 'no budget limit' : `budget ${money(r.budget, r.costUnit)}`;
   const blocks: Block[] = [title(`${r.scenario} — designs worth considering (objective: ${r.objectiveLabel}, ${budget})`)];
   const simulated = r.pareto.some((e) => e.method === 'simulation');
+  const limits = r.pareto.some((e) => e.abandonmentLimits !== undefined);
+  const abandon = r.objective === 'abandonment' || limits;
   if (r.instability) blocks.push(para("Today's design is unstable."), ...instabilityBlocks(r.instability, r.timeUnit, r.costUnit));
   blocks.push(
     tableBlock(
@@ -114,14 +129,19 @@ export function recommendText(r: RecommendRecord, o: { readonly waitUnit?: strin
             : []),
           { header: 'largest mean wait', align: 'right', secondary: true },
           { header: 'spare capacity', align: 'right', secondary: true },
+          ...(abandon ? [{ header: 'abandoning', align: 'right' as const }] : []),
+          ...(limits ? [{ header: 'abandonment limits' }] : []),
           ...(simulated ? [{ header: 'backlog vs previous', secondary: true }] : []),
           { header: 'changes from today', wrap: true },
         ],
-        rows: r.pareto.map((e, i) => frontRow(r, e, i, scale, simulated)),
+        rows: r.pareto.map((e, i) => frontRow(r, e, i, scale, simulated, abandon, limits)),
       },
       `Pareto set, cheapest first (no design is both cheaper and better${r.objectiveBetter === 'higher' ? ` — better is a higher ${r.objectiveLabel}: value of matches − ${r.waitingCost === null ? 'waiting cost (none in the file)' : `${num(r.waitingCost)} per waiting item per ${unitName(r.timeUnit)} × backlog`}; the net value rises along the set` : ''}${r.partial ? '; INTERRUPTED: what was found so far' : ''}; → the recommended design)` +
         (simulated
-          ? '; backlogs simulated: ± is the half-width of the 95 % interval, and "vs previous" compares with the design above under the same random streams (lower or higher only when the paired difference is significant):'
+          ? '; backlogs simulated: ± is the half-width of the 95 % interval, and "vs previous" compares with the design above under the same random streams (lower or higher only when the paired difference is significant)' +
+            (abandon ? '; "abandoning" is the share of all arrivals that give up' : '') +
+            (limits ? '; "abandonment limits": every limited class within its maxAbandonment, or "noise" where its interval contains the limit' : '') +
+            ':'
           : ':'),
     ),
   );

@@ -1,6 +1,6 @@
 import type { EstimateRecord, SimulateRecord, WaitRecord } from '../../usecases/simulate.js';
 import { count, estimate, num, pairText, pct, perUnit, wait, waitScale, type WaitScale } from '../format.js';
-import { referenceWords } from './common.js';
+import { abandonmentLimitsBlock, referenceWords } from './common.js';
 import { para, tableBlock, title, type Block } from './doc.js';
 
 const POLICY_WORDS: Record<string, string> = {
@@ -86,6 +86,8 @@ export function simulateText(r: SimulateRecord, o: { readonly waitUnit?: string 
     'Wait percentiles pool all replications; items matched at once wait 0, abandoned items are left out.',
   ];
   if (!hasExact && r.exact.reason) notes.push(`No exact column: ${r.exact.reason}.`);
+  const limits = abandonmentLimitsBlock(r.abandonmentLimits);
+  if (limits) blocks.push(limits);
   blocks.push(para(notes.join(' ')));
   return blocks;
 }
