@@ -243,7 +243,7 @@ function simulatedTable(r: ReportRecord, name: Namer): Markup {
   );
   const s0 = r.simulated[0]!;
   return html`<h3>With patience: simulated figures</h3>
-<p class="explain">The inputs give some classes a patience: their ${r.itemWord} give up after a random time (exponential, with that mean). The exact figures above assume everyone waits; these simulated figures (${s0.replications} replications of ${num(s0.arrivals)} arrivals, seed ${s0.seed}; ranges are 95 % intervals) include giving up. ${totals.join('; ')}.</p>
+<p class="explain">The inputs give some classes a patience: their ${r.itemWord} give up after a random time (exponential, with that mean). ${r.method === 'simulation' ? 'The figures above are simulated with giving up too; this table sets them beside the exact figures, which assume everyone waits. These simulated figures' : 'The exact figures above assume everyone waits; these simulated figures'} (${s0.replications} replications of ${num(s0.arrivals)} arrivals, seed ${s0.seed}; ranges are 95 % intervals) include giving up. ${totals.join('; ')}.</p>
 <table class="sim"><thead>${head}</thead><tbody>${rows}</tbody></table>`;
 }
 

@@ -96,7 +96,7 @@ export function verdicts(r: ReportRecord, name: Namer): string[] {
   if (simRec && simRec.backlog.mean !== null) {
     const who = simRec.role === 'recommended' ? 'the recommended design' : "today's design";
     out.push(
-      `With the patience given in the file, items give up: simulation of ${who} gives ${num(simRec.backlog.mean)} ${items} waiting on average and ${pct(simRec.abandonShare.mean ?? NaN)} of arrivals giving up (the exact figures above ignore patience).`,
+      `With the patience given in the file, items give up: simulation of ${who} gives ${num(simRec.backlog.mean)} ${items} waiting on average and ${pct(simRec.abandonShare.mean ?? NaN)} of arrivals giving up (${r.method === 'simulation' ? 'the figures above are simulated with giving up too' : 'the exact figures above ignore patience'}).`,
     );
   }
   return out;

@@ -15,7 +15,7 @@ import { outcomesUnderWith, worstCase, type Outcome, type OutcomeScorer } from '
 import { byScoring, outcomeScorer, patienceOf, simulationRecord, simulationWarning, type ScoringInput, type ScoringRecord } from './scoring.js';
 import { recommendUseCase, type RecommendInput } from './recommend.js';
 import { idsOf, type InstabilityRecord, type PairIds, type Reference } from './records.js';
-import { patienceWarning } from './warnings.js';
+import { limitsNotComparedWarning, patienceWarning } from './warnings.js';
 
 export interface DesignSummary {
   readonly added: PairIds[];
@@ -165,6 +165,7 @@ async function column(ctx: ScenarioContext, input: CompareInput): Promise<Compar
     warnings: [
       simNote ? `${ctx.source}: ${simNote}` : patienceWarning(ctx, `The figures of ${ctx.source}`),
       recommended && recommended.method !== scored.method ? `${ctx.source}: the recommended design's figures are ${recommended.method === 'simulation' ? 'simulated' : 'exact'} (the recommender's), today's are ${scored.method === 'simulation' ? 'simulated' : 'exact'}.` : null,
+      limitsNotComparedWarning(ctx, scored.method, `${ctx.source}: today's figures and those under the variants`),
     ].filter((w): w is string => w !== null),
   };
 }

@@ -8,7 +8,7 @@
 import { EdgewiseError, InfeasibleDesignError, TooLargeError } from '../errors.js';
 import { pairKey } from '../model/scenario.js';
 import type { ObjectiveName } from '../design/space/objective.js';
-import { impatientClasses } from './warnings.js';
+import { impatientClasses, limitsNotComparedWarning } from './warnings.js';
 import { pairRules, recordBase, scenarioContext, type ScenarioContext } from './context.js';
 import { designFigures, type DesignFigures } from './designs.js';
 import { designDetails } from '../design/search/recommend.js';
@@ -272,10 +272,16 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
   }
 
   // the report says it in its own words: the exact figures ignore patience, the simulated ones beside them do not
-  const patienceNote = ctx.patience
+  const allSimulated =
+    scored.method === 'simulation' &&
+    (!decision || [decision.today, decision.recommended].every((d) => d.method === 'simulation')) &&
+    (!sweep || sweep.method === 'simulation');
+  const patienceNote = ctx.patience && !allSimulated
     ? `The exact figures ignore patience (${impatientClasses(ctx)} one in the file): they assume every item waits until it is matched; the simulated figures under "Waits per class" include items giving up (abandonment).`
     : null;
-  const warnings = [...(decision?.warnings ?? []).filter((w) => !/patience/i.test(w)), ...(patienceNote ? [patienceNote] : [])];
+  // the decision (recommend's) checks the limits; the report's own sections do not
+  const limitsNote = limitsNotComparedWarning(ctx, scored.method, "The report's figures outside the Pareto set and the decision");
+  const warnings = [...(decision?.warnings ?? []).filter((w) => !/patience/i.test(w)), ...(patienceNote ? [patienceNote] : []), ...(limitsNote ? [limitsNote] : [])];
   // each simulated section says so where it is printed
   const simulatedParts = [
     scored.method === 'simulation' ? "today's match rates and the designs under the demand variants" : null,
@@ -285,7 +291,7 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
   if (simulatedParts.length > 0) {
     const plan = scoringPlan(ctx, scoring);
     notes.push(
-      `Simulated figures (seed ${input.seed}, the same arrival stream for every design): ${simulatedParts.join('; ')}. Each simulated figure has a 95 % interval (in the JSON record; ${plan.replications} replications of ${plan.arrivals.toLocaleString('en-US')} arrivals), and two designs are called different only when their paired difference is significant.`,
+      `Simulated figures (seed ${input.seed}, the same arrival stream for every design): ${simulatedParts.join('; ')}. Each simulated figure has a 95 % interval (in the JSON record; ${plan.replications} replications of ${plan.arrivals.toLocaleString('en-US')} arrivals), and two designs are called different only when their paired difference is significant.${ctx.patience ? " They include the file's patience: items giving up (abandonment)." : ''}`,
     );
   }
   return {

@@ -16,7 +16,7 @@ import { supportedDigits } from '../output/format.js';
 import { pairRules, recordBase, type ScenarioContext } from './context.js';
 import { instabilityOf } from './instability.js';
 import { byClass, certificateRecord, finite, idsOf, pairIds, type CertificateRecord, type InstabilityRecord, type RepairRecord, type PairIds, type RecordBase, type Reference, type SetRecord } from './records.js';
-import { exactWarnings } from './warnings.js';
+import { exactWarnings, limitsNotComparedWarning, withNote } from './warnings.js';
 import { checkChangeCount } from './limits.js';
 import { bottlenecksOf, predicted as predictedAt, relationTo } from '../design/sensitivity/bottleneck-relation.js';
 import { compareChanges, perUnit } from '../design/sensitivity/change-ranking.js';
@@ -186,7 +186,7 @@ export async function sensitivityUseCase(ctx: ScenarioContext, input: Sensitivit
   }
   const specs = changesOf(ctx, input.allPairs === true);
   checkChangeCount(specs.length, model.n, input.allPairs === true);
-  const base = recordBase(ctx, 'sensitivity', exactWarnings(ctx));
+  const base = recordBase(ctx, 'sensitivity', withNote(exactWarnings(ctx), limitsNotComparedWarning(ctx, 'exact', 'These exact figures')));
   const stability = checkStability(model);
   if (!stability.stable) return unstableRecord(ctx, base, specs, certificateWithIds(model, stability.certificate!));
   return byScoring(
@@ -401,7 +401,7 @@ async function simulatedSensitivity(
     .filter((c) => !c.allowed && c.rule && c.significant === true && c.delta !== null && c.delta < 0)
     .map((c) => ({ pair: c.pair, change: c.change, rule: c.rule!, ...(c.ruleReason ? { ruleReason: c.ruleReason } : {}), backlogSaved: -c.delta! }))
     .sort((x, y) => y.backlogSaved - x.backlogSaved);
-  const warnings = [simulationWarning(scoring)!, ...base.warnings.filter((w) => !/ignore patience/.test(w))];
+  const warnings = withNote([simulationWarning(scoring)!, ...base.warnings.filter((w) => !/ignore patience|abandonment limits/.test(w))], limitsNotComparedWarning(ctx, 'simulation', 'These simulated figures'));
   return {
     ...base,
     warnings,

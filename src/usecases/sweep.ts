@@ -15,7 +15,7 @@ import { backlogInterval, byScoring, pairedVs, pairsOf, patienceOf, scoringPlan,
 import { asciiPairs } from '../output/ascii-pairs.js';
 import { recordBase, type ScenarioContext } from './context.js';
 import { finite, idsOf, type PairIds, type RecordBase, type Reference } from './records.js';
-import { exactWarnings } from './warnings.js';
+import { exactWarnings, limitsNotComparedWarning, withNote } from './warnings.js';
 
 export interface SweepVariantInput {
   readonly add: readonly PairIds[];
@@ -144,7 +144,7 @@ function exactSweep(ctx: ScenarioContext, input: SweepInput, grow: number[], spe
     })),
   }));
   return {
-    ...recordBase(ctx, 'sweep', exactWarnings(ctx)),
+    ...recordBase(ctx, 'sweep', withNote(exactWarnings(ctx), limitsNotComparedWarning(ctx, 'exact', 'These exact figures'))),
     method: 'exact',
     reference: ctx.reference,
     grow: idsOf(model, r.grow),
@@ -254,7 +254,7 @@ async function simulatedSweep(ctx: ScenarioContext, input: SweepInput, grow: num
   });
   const scoring = simulationRecord(ctx, input, reason);
   return {
-    ...recordBase(ctx, 'sweep', [simulationWarning(scoring)!, ...exactWarnings(ctx).filter((w) => !/ignore patience/.test(w))]),
+    ...recordBase(ctx, 'sweep', withNote([simulationWarning(scoring)!, ...exactWarnings(ctx).filter((w) => !/ignore patience/.test(w))], limitsNotComparedWarning(ctx, 'simulation', 'These simulated figures'))),
     ...scoring,
     reference: ctx.reference,
     grow: idsOf(model, Int32Array.from(grow)),

@@ -70,13 +70,35 @@ export function scoringWarnings(
   return out.filter((w): w is string => w !== null);
 }
 
+/** The warnings with `note` added when there is one. */
+export function withNote(warnings: string[], note: string | null): string[] {
+  return note === null ? warnings : [...warnings, note];
+}
+
+/** "classes a, b, c, d and 2 more" for the classes with a maxAbandonment; null when none has one. */
+function limitedClasses(ctx: ScenarioContext): string | null {
+  const limited = ctx.scenario.classes.filter((c) => c.maxAbandonment !== undefined).map((c) => c.id);
+  if (limited.length === 0) return null;
+  return `${limited.length === 1 ? 'class' : 'classes'} ${limited.slice(0, 4).join(', ')}${limited.length > 4 ? ` and ${limited.length - 4} more` : ''}`;
+}
+
+/**
+ * The file's maxAbandonment limits where a command's figures (exact, or simulated without a check
+ * of the limits: sensitivity, sweep, compare, report) do not compare the shares with them: said.
+ */
+export function limitsNotComparedWarning(ctx: ScenarioContext, method: 'exact' | 'simulation', what: string): string | null {
+  if (method === 'exact') return limitsIgnoredWarning(ctx, what);
+  const who = limitedClasses(ctx);
+  if (who === null) return null;
+  return `${what} do not compare the abandonment shares with the limits (maxAbandonment of ${who}): \`edgewise recommend\` keeps designs over a limit out of its Pareto set, and \`edgewise evaluate\` and \`edgewise simulate\` compare each share with its limit.`;
+}
+
 /**
  * The file's maxAbandonment limits, when the figures printed have no abandonment (exact figures):
  * said, never silently ignored. Null when the file has none.
  */
 export function limitsIgnoredWarning(ctx: ScenarioContext, what = 'These exact figures'): string | null {
-  const limited = ctx.scenario.classes.filter((c) => c.maxAbandonment !== undefined).map((c) => c.id);
-  if (limited.length === 0) return null;
-  const who = `${limited.length === 1 ? 'class' : 'classes'} ${limited.slice(0, 4).join(', ')}${limited.length > 4 ? ` and ${limited.length - 4} more` : ''}`;
+  const who = limitedClasses(ctx);
+  if (who === null) return null;
   return `${what} do not check the abandonment limits (maxAbandonment of ${who}): they have no abandonment; simulated figures (--score auto or simulation, or \`edgewise simulate\`) compare each share with its limit.`;
 }

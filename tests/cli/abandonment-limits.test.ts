@@ -9,6 +9,8 @@ import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
 import { recommendCommand } from '../../src/cli/commands/recommend.js';
 import { evaluateCommand } from '../../src/cli/commands/evaluate.js';
+import { sensitivityCommand } from '../../src/cli/commands/sensitivity.js';
+import { sweepCommand } from '../../src/cli/commands/sweep.js';
 import { runCommand, writeScenario } from '../helpers/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'edgewise-abandon-'));
@@ -108,5 +110,24 @@ describe('maxAbandonment', () => {
     for (const p of r.pareto) expect(p.objective).toBeCloseTo(p.abandonShare ?? 0, 12);
     // along the front (cheapest first) the share falls
     for (let i = 1; i < r.pareto.length; i++) expect(r.pareto[i].objective).toBeLessThan(r.pareto[i - 1].objective);
+  });
+
+  it('sensitivity and sweep say that their figures do not compare the shares with the limits, exact or simulated', async () => {
+    const file = writeScenario(dir, 'limits-other.json', doc(0.3));
+    for (const score of ['auto', 'exact'] as const) {
+      const sens = await runCommand(sensitivityCommand, { file, json: true, score } as never, dir);
+      expect(sens.code).toBe(0);
+      const sw = await runCommand(sweepCommand, { file, json: true, score, grow: 'b', steps: '3' } as never, dir);
+      expect(sw.code).toBe(0);
+      for (const r of [JSON.parse(sens.out), JSON.parse(sw.out)]) {
+        expect(r.method).toBe(score === 'exact' ? 'exact' : 'simulation');
+        const said = (r.warnings as string[]).filter((w) => /maxAbandonment of class a/.test(w));
+        expect(said).toHaveLength(1);
+        expect(said[0]).toMatch(score === 'exact' ? /do not check the abandonment limits/ : /do not compare the abandonment shares with the limits/);
+      }
+    }
+    // without a limit, nothing is said about limits
+    const none = await runCommand(sensitivityCommand, { file: writeScenario(dir, 'no-limits.json', doc()), json: true } as never, dir);
+    expect((JSON.parse(none.out).warnings as string[]).some((w) => /maxAbandonment/.test(w))).toBe(false);
   });
 });
