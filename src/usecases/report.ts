@@ -276,9 +276,11 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
     scored.method === 'simulation' &&
     (!decision || [decision.today, decision.recommended].every((d) => d.method === 'simulation')) &&
     (!sweep || sweep.method === 'simulation');
-  const patienceNote = ctx.patience && !allSimulated
-    ? `The exact figures ignore patience (${impatientClasses(ctx)} one in the file): they assume every item waits until it is matched; the simulated figures under "Waits per class" include items giving up (abandonment).`
-    : null;
+  const patienceNote = !ctx.patience
+    ? null
+    : allSimulated
+      ? `Every figure of this report is simulated with the patience in the file (${impatientClasses(ctx)} one): items giving up (abandonment) are included.`
+      : `The exact figures ignore patience (${impatientClasses(ctx)} one in the file): they assume every item waits until it is matched; the simulated figures under "Waits per class" include items giving up (abandonment).`;
   // the decision (recommend's) checks the limits; the report's own sections do not
   const limitsNote = limitsNotComparedWarning(ctx, scored.method, "The report's figures outside the Pareto set and the decision");
   const warnings = [...(decision?.warnings ?? []).filter((w) => !/patience/i.test(w)), ...(patienceNote ? [patienceNote] : []), ...(limitsNote ? [limitsNote] : [])];

@@ -67,14 +67,25 @@ describe('patience on a seeded 16-class scenario', () => {
 });
 
 describe('the report with patience', () => {
-  it('shows simulated figures with abandonment beside the exact ones, and says the exact figures ignore patience', async () => {
+  it('shows simulated figures with abandonment beside the exact ones; under auto every figure is simulated with giving up, and says so', async () => {
     const r = await commands.report('impatient.json');
     expect(r.code).toBe(0);
     const page = readFileSync(join(dir, 'impatient.json.html'), 'utf8');
     expect(page).toMatch(/With patience: simulated figures/);
-    expect(page).toMatch(/ignore patience/);
+    expect(page).toMatch(/simulated with giving up too/);
+    expect(page).not.toMatch(/exact figures above (ignore patience|assume everyone waits)/);
+    expect(JSON.parse(r.out).warnings.some((w: string) => /simulated with the patience in the file/.test(w))).toBe(true);
     const plain = readFileSync(join(dir, 'patient.json.html'), 'utf8');
     expect(plain).not.toMatch(/With patience: simulated figures/);
+  });
+
+  it('with --score exact, says the exact figures ignore patience', async () => {
+    const r = await runCommand(reportCommand, { file: 'impatient.json', json: true, output: 'impatient-exact.html', score: 'exact' } as never, dir);
+    expect(r.code, r.err).toBe(0);
+    const page = readFileSync(join(dir, 'impatient-exact.html'), 'utf8');
+    expect(page).toMatch(/With patience: simulated figures/);
+    expect(page).toMatch(/exact figures above (ignore patience|assume everyone waits)/);
+    expect(JSON.parse(r.out).warnings.some((w: string) => /exact figures ignore patience/.test(w))).toBe(true);
   });
 });
 
