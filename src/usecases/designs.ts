@@ -57,9 +57,13 @@ export interface DesignFigures {
   /**
    * On a simulated front: this design's backlog minus the next cheaper design's, paired under
    * common random numbers, with its 95 % interval; `significant` when the interval excludes 0
-   * (otherwise the two designs are not distinguishable by this simulation).
+   * (otherwise the two designs are not distinguishable by this simulation); `negligible` when the
+   * whole interval lies within ±1 % of the cheaper design's backlog (whatever its sign, the
+   * difference is too small to matter).
    */
-  readonly vsCheaper?: { readonly backlogDifference: number; readonly ci95: [number, number] | null; readonly significant: boolean };
+  readonly vsCheaper?: { readonly backlogDifference: number; readonly ci95: [number, number] | null; readonly significant: boolean; readonly negligible: boolean };
+  /** Simulated: the replications behind the figures (more where the ranking was uncertain). */
+  readonly replications?: number;
 }
 
 export interface AbandonmentLimit {
@@ -141,8 +145,9 @@ export function designFigures(problem: DesignProblem, d: DesignDetails, objectiv
       : {}),
     ...limitsOf(problem, d),
     ...(d.vsCheaper && Number.isFinite(d.vsCheaper.mean)
-      ? { vsCheaper: { backlogDifference: d.vsCheaper.mean, ci95: d.vsCheaper.ci95 ? [d.vsCheaper.ci95[0], d.vsCheaper.ci95[1]] : null, significant: d.vsCheaper.significant } }
+      ? { vsCheaper: { backlogDifference: d.vsCheaper.mean, ci95: d.vsCheaper.ci95 ? [d.vsCheaper.ci95[0], d.vsCheaper.ci95[1]] : null, significant: d.vsCheaper.significant, negligible: d.vsCheaper.negligible } }
       : {}),
+    ...(d.stable && d.method === 'simulation' && d.perReplication ? { replications: d.perReplication.length } : {}),
   };
 }
 

@@ -12,6 +12,7 @@ import { needsMatchRates, objectiveBetter, objectiveLabel, objectiveSign, type O
 import { paretoFront } from '../design/space/pareto.js';
 import { changeCount } from '../design/space/problem.js';
 import { designDetails, NO_VALUES_MESSAGE, recommend, type DesignDetails, type Recommendation, type RecommendOptions } from '../design/search/recommend.js';
+import type { AllocationRecord } from '../design/search/allocation.js';
 import type { ScenarioContext } from './context.js';
 import { recordBase } from './context.js';
 import { changePairs, designFigures, verdictRecord, type DesignFigures, type VerdictRecord } from './designs.js';
@@ -84,6 +85,8 @@ export interface RecommendRecord extends RecordBase, DecisionPart {
     readonly designLimit: number | null;
     /** With maxAbandonment in the file: Pareto designs of the search dropped as over a limit by the final re-score. */
     readonly overLimitAfterRescore?: number;
+    /** A simulated re-score: the replications added where the ranking was uncertain (docs/simulation-scoring.md). */
+    readonly allocation?: AllocationRecord;
     readonly cheapestStableCost: number;
     readonly milp: { readonly cheapest: MilpEntry; readonly ladder: Array<{ readonly budget: number; readonly design: MilpEntry | null }> };
   };
@@ -240,6 +243,7 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
       harmfulRefused: rec.harmfulRefused,
       designLimit: rec.designLimit ?? null,
       ...(rec.overLimitAfterRescore === undefined ? {} : { overLimitAfterRescore: rec.overLimitAfterRescore }),
+      ...(rec.allocation ? { allocation: rec.allocation } : {}),
       cheapestStableCost: rec.milp.cheapest.cost,
       milp: { cheapest: milpEntry(rec.milp.cheapest), ladder: rec.milp.ladder.map((l) => ({ budget: l.budget, design: l.design ? milpEntry(l.design) : null })) },
     },

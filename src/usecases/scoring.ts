@@ -15,7 +15,8 @@
  */
 import { TooLargeError } from '../errors.js';
 import type { CompiledModel } from '../model/compile.js';
-import type { Score, ScoreMethod, ScoreSpec } from '../design/scoring/score.js';
+import { extendedScore, type Score, type ScoreMethod, type ScoreSpec } from '../design/scoring/score.js';
+import { allocateReplications, allocationPlan, INDIFFERENCE, negligibleDifference, type AllocationRecord } from '../design/search/allocation.js';
 import { pairedDifference, reportPlan, type Interval, type PairedDifference, type SimPlan } from '../design/scoring/sim-score.js';
 import { createScorer, workerScriptUrl } from '../design/scoring/scorer.js';
 import type { ScenarioContext } from './context.js';
@@ -47,6 +48,8 @@ export interface ScoringRecord {
     readonly replications: number;
     readonly seed: number;
     readonly abandonment: boolean;
+    /** More replications where a difference from the reference was not yet settled (allocation.ts). */
+    readonly allocation?: AllocationRecord;
   };
 }
 
@@ -61,11 +64,11 @@ export function scoringPlan(ctx: ScenarioContext, input: ScoringInput): SimPlan 
 }
 
 /** The scoring record of a simulated figure set, with its reason. */
-export function simulationRecord(ctx: ScenarioContext, input: ScoringInput, reason: string): ScoringRecord {
+export function simulationRecord(ctx: ScenarioContext, input: ScoringInput, reason: string, allocation?: AllocationRecord): ScoringRecord {
   const plan = scoringPlan(ctx, input);
   return {
     method: 'simulation',
-    simulation: { reason, arrivals: plan.arrivals, warmup: plan.warmup, replications: plan.replications, seed: input.seed ?? 1, abandonment: ctx.patience },
+    simulation: { reason, arrivals: plan.arrivals, warmup: plan.warmup, replications: plan.replications, seed: input.seed ?? 1, abandonment: ctx.patience, ...(allocation ? { allocation } : {}) },
   };
 }
 
@@ -73,7 +76,12 @@ export function simulationRecord(ctx: ScenarioContext, input: ScoringInput, reas
 export function simulationWarning(rec: ScoringRecord): string | null {
   const s = rec.simulation;
   if (!s) return null;
-  return `Simulated figures (${s.reason}): ${s.replications} replications of ${s.arrivals.toLocaleString('en-US')} arrivals, seed ${s.seed}, the same arrival stream for every design (common random numbers); each carries its 95 % interval.`;
+  const a = s.allocation;
+  const more =
+    a && a.extended > 0
+      ? ` (more, up to ${a.maxReplications}, for the ${a.openAtStart} difference${a.openAtStart === 1 ? '' : 's'} from the reference they left unsettled${a.unresolved > 0 ? `; ${a.unresolved} still not distinguishable` : ''})`
+      : '';
+  return `Simulated figures (${s.reason}): ${s.replications} replications of ${s.arrivals.toLocaleString('en-US')} arrivals${more}, seed ${s.seed}, the same arrival stream for every design (common random numbers); each carries its 95 % interval.`;
 }
 
 /**
@@ -151,6 +159,36 @@ export async function simulateDesigns(
   } finally {
     await scorer.close();
   }
+}
+
+/**
+ * simulateDesigns, then sequential allocation (src/design/search/allocation.ts): each design whose
+ * paired difference from the first (the reference) is neither significant nor negligible (its
+ * interval within ±1 % of the reference's backlog) gets more replications, with the reference, up
+ * to the allocation's most; the extra replications continue the same streams.
+ */
+export async function simulateAgainstFirst(...args: Parameters<typeof simulateDesigns>): Promise<{ scores: Score[]; allocation: AllocationRecord }> {
+  const [ids, rates, designs, plan, input, patience] = args;
+  const first = await simulateDesigns(...args);
+  const keys = designs.map((_, i) => String(i));
+  const open = (sc: ReadonlyMap<string, Score>): string[][] => {
+    const ref = sc.get('0')!;
+    if (!ref.stable) return [];
+    return keys.slice(1).flatMap((k) => {
+      const d = pairedVs(sc.get(k)!, ref);
+      return !sc.get(k)!.stable || d.significant || negligibleDifference(d, ref.backlogTotal, INDIFFERENCE) ? [] : [['0', k]];
+    });
+  };
+  const done = await allocateReplications({
+    plan: allocationPlan(plan.replications),
+    scores: new Map(keys.map((k, i) => [k, first[i]!] as const)),
+    open,
+    // a design's key is its index
+    extend: async (list, from, count) => simulateDesigns(ids, rates, list.map((k) => designs[Number(k)]!), { ...plan, firstReplication: from, replications: count }, input, patience),
+    merge: (a, b) => extendedScore({ perClass: true }, a, b),
+    stopped: () => false,
+  });
+  return { scores: keys.map((k) => done.scores.get(k)!), allocation: done.record };
 }
 
 /** The pairs of a compiled model (class indices). */

@@ -20,7 +20,7 @@ import { exactWarnings, limitsNotComparedWarning, withNote } from './warnings.js
 import { checkChangeCount } from './limits.js';
 import { bottlenecksOf, predicted as predictedAt, relationTo } from '../design/sensitivity/bottleneck-relation.js';
 import { compareChanges, perUnit } from '../design/sensitivity/change-ranking.js';
-import { backlogInterval, byScoring, pairedVs, pairsOf, patienceOf, scoringPlan, simulateDesigns, simulatedWaits, simulationRecord, simulationWarning, type ScoringInput, type ScoringRecord } from './scoring.js';
+import { backlogInterval, byScoring, pairedVs, pairsOf, patienceOf, scoringPlan, simulateAgainstFirst, simulatedWaits, simulationRecord, simulationWarning, type ScoringInput, type ScoringRecord } from './scoring.js';
 import { num } from '../output/format.js';
 
 export type ChangeVerdict = 'helps' | 'harmful' | 'no change' | 'not distinguishable' | 'worth dropping' | 'raises backlog' | 'breaks stability' | 'makes it stable' | 'still unstable' | 'not evaluated';
@@ -59,6 +59,8 @@ export interface ChangeRecord {
    */
   readonly deltaCi95?: [number, number] | null;
   readonly significant?: boolean;
+  /** Simulated: replications behind the figures (more where the difference was not yet settled). */
+  readonly replications?: number;
   /** Simulated: 95 % interval of the changed design's backlog. */
   readonly backlogCi95?: [number, number] | null;
   /** Change in each class's mean wait (null when not evaluated or unstable). */
@@ -319,8 +321,8 @@ async function simulatedSensitivity(
   const designs = specs.map((s) =>
     s.kind === 'add' ? [...basePairs, [s.a, s.b] as const] : basePairs.filter(([x, y]) => !(x === s.a && y === s.b)),
   );
-  const scores = await simulateDesigns(model.ids, model.rates, [basePairs, ...designs], scoringPlan(ctx, input), input, patienceOf(ctx));
-  const scoring = simulationRecord(ctx, input, reason);
+  const { scores, allocation } = await simulateAgainstFirst(model.ids, model.rates, [basePairs, ...designs], scoringPlan(ctx, input), input, patienceOf(ctx));
+  const scoring = simulationRecord(ctx, input, reason, allocation);
   const baseScore = scores[0]!;
   const bottlenecks = bottlenecksOf(model, stability);
   if (!baseScore.stable) {
@@ -385,6 +387,7 @@ async function simulatedSensitivity(
       method: 'simulation',
       deltaCi95: ci,
       significant,
+      replications: sc.perReplication?.length ?? 0,
       backlogCi95: stable ? backlogInterval(sc) : null,
       waitDelta: waits ? byClass(model.ids, Float64Array.from(waits, (w, k) => w - baseWaits[k]!)) : null,
       sortDelta,

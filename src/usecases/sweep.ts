@@ -11,7 +11,9 @@ import { withRates } from '../model/compile.js';
 import { checkStability } from '../stability/check.js';
 import { EdgewiseError, UnstableDesignError } from '../errors.js';
 import { certificateWithIds } from '../stability/certificate.js';
-import { backlogInterval, byScoring, pairedVs, pairsOf, patienceOf, scoringPlan, simulateDesigns, simulationRecord, simulationWarning, type ScoringInput, type ScoringRecord } from './scoring.js';
+import type { Score } from '../design/scoring/score.js';
+import { combineAllocations, type AllocationRecord } from '../design/search/allocation.js';
+import { backlogInterval, byScoring, pairedVs, pairsOf, patienceOf, scoringPlan, simulateAgainstFirst, simulationRecord, simulationWarning, type ScoringInput, type ScoringRecord } from './scoring.js';
 import { asciiPairs } from '../output/ascii-pairs.js';
 import { recordBase, type ScenarioContext } from './context.js';
 import { finite, idsOf, type PairIds, type RecordBase, type Reference } from './records.js';
@@ -187,8 +189,13 @@ async function simulatedSweep(ctx: ScenarioContext, input: SweepInput, grow: num
   const plan = scoringPlan(ctx, input);
   const patience = patienceOf(ctx);
   const scaled = (s: number): Float64Array => model.rates.map((r, k) => (grown[k] ? r * s : r));
-  const at: Array<Awaited<ReturnType<typeof simulateDesigns>>> = [];
-  for (const s of factors) at.push(await simulateDesigns(model.ids, scaled(s), pairs, plan, input, patience));
+  const at: Score[][] = [];
+  const allocations: AllocationRecord[] = [];
+  for (const s of factors) {
+    const step = await simulateAgainstFirst(model.ids, scaled(s), pairs, plan, input, patience);
+    at.push(step.scores);
+    allocations.push(step.allocation);
+  }
   const stabilityAt = (d: number, s: number): { slack: number | null; set: string[] } => {
     try {
       const st = checkStability(withRates(designs[d]!, scaled(s)));
@@ -252,7 +259,7 @@ async function simulatedSweep(ctx: ScenarioContext, input: SweepInput, grow: num
       prev = t;
     });
   });
-  const scoring = simulationRecord(ctx, input, reason);
+  const scoring = simulationRecord(ctx, input, reason, combineAllocations(allocations));
   return {
     ...recordBase(ctx, 'sweep', withNote([simulationWarning(scoring)!, ...exactWarnings(ctx).filter((w) => !/ignore patience/.test(w))], limitsNotComparedWarning(ctx, 'simulation', 'These simulated figures'))),
     ...scoring,

@@ -84,6 +84,32 @@ describe('recommend --score simulation', () => {
     }
     expect(covered / pareto.length).toBeGreaterThanOrEqual(0.9);
     expect(rec.warnings.join(' ')).toMatch(/simulation/);
+    // sequential allocation: a comparison along the set that is neither significant nor negligible
+    // has both designs at the most replications; a significant "lower"/"higher" agrees in sign with
+    // the exact difference (reference: the exact recursion) for at least 90 % of the claims
+    const a = rec.search.allocation;
+    expect(a.initialReplications).toBe(10);
+    let claims = 0;
+    let right = 0;
+    (rec.pareto as Array<Entry & { replications: number; vsCheaper?: { backlogDifference: number; significant: boolean; negligible: boolean } }>).forEach((p, i, all) => {
+      expect(p.replications).toBeGreaterThanOrEqual(10);
+      expect(p.replications).toBeLessThanOrEqual(a.maxReplications);
+      const v = p.vsCheaper;
+      if (!v) return;
+      if (!v.significant && !v.negligible) {
+        expect(p.replications).toBe(a.maxReplications);
+        expect(all[i - 1]!.replications).toBe(a.maxReplications);
+      }
+      if (v.significant) {
+        claims++;
+        const prev = all[i - 1]!;
+        const d = evaluateExact(scenarioDesign(scenario, p.added, p.removed)).backlogTotal - evaluateExact(scenarioDesign(scenario, prev.added, prev.removed)).backlogTotal;
+        if (Math.sign(d) === Math.sign(v.backlogDifference)) right++;
+      }
+    });
+    if (claims > 0) expect(right / claims).toBeGreaterThanOrEqual(0.9);
+    // replications added to designs off the set (dominated after the re-score) count too
+    expect(a.extraReplications).toBeGreaterThanOrEqual((rec.pareto as Array<{ replications: number }>).reduce((s, p) => s + p.replications - 10, 0));
     const two = await runCommand(recommendCommand, { file, score: 'simulation', seed: 3, json: true, jobs: 2 }, dir);
     expect(two.out).toBe(sim.out);
   }, 240_000);

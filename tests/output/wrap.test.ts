@@ -47,6 +47,18 @@ describe('wrap', () => {
     expect(wrap('longname ↔ othername', 10)).toEqual(['longname ↔', 'othername']);
   });
 
+  it('a pair wider than the line breaks after its arrow: "↔" never starts a line', () => {
+    for (const w of [11, 12, 14, 20]) {
+      const lines = wrap('surg-night ↔ surg-night and + icu-night ↔ ed-night', w);
+      for (const l of lines) expect(l.startsWith('↔'), `${w}: ${JSON.stringify(lines)}`).toBe(false);
+      // nothing lost, in order (a name may be broken where even "name ↔" is wider than the line)
+      expect(lines.join('').replace(/\s/g, '')).toBe('surg-night↔surg-nightand+icu-night↔ed-night');
+      for (const l of lines) expect(columns(l)).toBeLessThanOrEqual(w);
+      for (const l of lines) expect(/[+−]$/.test(l), JSON.stringify(lines)).toBe(false);
+    }
+    expect(wrap('surg-night ↔ surg-night', 13)).toEqual(['surg-night ↔', 'surg-night']);
+  });
+
   it('property: lines fit, and the words come back in order (seeded random texts)', () => {
     const rng = new Rng(2024);
     const alphabet = 'abcdefghijklmnopqrstuvwxyzé中-,~%';

@@ -13,7 +13,7 @@ import { bipartition, components } from '../../model/components.js';
 import { evaluateBacklog, evaluateExact } from '../../exact/evaluate.js';
 import { valueRate as sumValue } from '../../model/values.js';
 import { checkStability } from '../../stability/check.js';
-import { simulateDesign, type Interval, type SimPlan } from './sim-score.js';
+import { mergeFigures, simulateDesign, type Interval, type SimFigures, type SimPlan } from './sim-score.js';
 
 /**
  * How designs are scored: the exact recursion, seeded simulation, or `auto` — exact where it is
@@ -82,6 +82,11 @@ export interface Score extends SimulatedFigures {
   /** Simulated, per class: ends of the 95 % interval of the backlog (when per-class figures are asked). */
   readonly backlogLo?: Float64Array;
   readonly backlogHi?: Float64Array;
+  /**
+   * Simulated with per-class figures asked (the re-score of the designs returned): the figures of
+   * every replication, so that more replications can be added (`extendedScore`).
+   */
+  readonly figures?: SimFigures;
 }
 
 /** The compiled graph of a design: the fixed pairs, then the toggles that are on. */
@@ -134,27 +139,43 @@ export function simulatedScore(spec: ScoreSpec, model: CompiledModel): Score {
   const plan = spec.sim;
   if (!plan) throw new RangeError('a simulated score needs a simulation plan');
   try {
-    const f = simulateDesign(model, plan, spec.patience);
-    return {
-      stable: true,
-      backlogTotal: f.backlogTotal,
-      backlog: spec.perClass ? f.backlog : null,
-      // a value rate needs exact match rates: a simulated score has none
-      valueRate: NaN,
-      independentSets: 0,
-      evaluated: true,
-      method: 'simulation',
-      backlogCi95: f.backlogCi95,
-      perReplication: f.perReplication,
-      abandonShare: f.abandonShare,
-      abandonShareTotal: f.abandonShareTotal,
-      ...(f.impatient ? { abandonShareLo: f.abandonShareLo, abandonShareHi: f.abandonShareHi, abandonShareCi95: f.abandonShareCi95 } : {}),
-      ...(spec.perClass ? { backlogLo: f.backlogLo, backlogHi: f.backlogHi } : {}),
-    };
+    return scoreOfFigures(spec, simulateDesign(model, plan, spec.patience));
   } catch (e) {
     if (e instanceof TooLargeError) return UNSTABLE_EVALUATED;
     throw e;
   }
+}
+
+function scoreOfFigures(spec: Pick<ScoreSpec, 'perClass'>, f: SimFigures): Score {
+  return {
+    stable: true,
+    backlogTotal: f.backlogTotal,
+    backlog: spec.perClass ? f.backlog : null,
+    // a value rate needs exact match rates: a simulated score has none
+    valueRate: NaN,
+    independentSets: 0,
+    evaluated: true,
+    method: 'simulation',
+    backlogCi95: f.backlogCi95,
+    perReplication: f.perReplication,
+    abandonShare: f.abandonShare,
+    abandonShareTotal: f.abandonShareTotal,
+    ...(f.impatient ? { abandonShareLo: f.abandonShareLo, abandonShareHi: f.abandonShareHi, abandonShareCi95: f.abandonShareCi95 } : {}),
+    ...(spec.perClass ? { backlogLo: f.backlogLo, backlogHi: f.backlogHi, figures: f } : {}),
+  };
+}
+
+/**
+ * A simulated score with the replications of `more` added (scored with the same spec, except that
+ * its plan starts at the replication where `score`'s end: `firstReplication`). Both must carry their
+ * figures (spec.perClass). A score that became unusable in the extra replications (a queue past the
+ * cap) makes the design unusable, as it would have been in one longer run.
+ */
+export function extendedScore(spec: Pick<ScoreSpec, 'perClass'>, score: Score, more: Score): Score {
+  if (!score.stable) return score;
+  if (!more.stable) return more;
+  if (!score.figures || !more.figures) throw new RangeError('only simulated scores with their figures can be extended');
+  return scoreOfFigures(spec, mergeFigures(score.figures, more.figures));
 }
 
 export function scoreDesign(spec: ScoreSpec, design: ArrayLike<number>): Score {

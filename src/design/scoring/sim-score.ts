@@ -35,6 +35,12 @@ export interface SimPlan {
   readonly seed: number;
   /** Stop when more items than this wait at once (the design is then treated as unusable). */
   readonly maxWaiting: number;
+  /**
+   * Index of the first replication (default 0): replications first … first + replications − 1 of
+   * the seed's streams, so that a design given more replications later (sequential allocation)
+   * continues the same streams as every other design, and its figures merge (`mergeFigures`).
+   */
+  readonly firstReplication?: number;
 }
 
 /** The cheap plan of the search: enough to rank designs, not to report them. */
@@ -76,10 +82,31 @@ export interface SimFigures {
   readonly replications: number;
   readonly arrivals: number;
   readonly impatient: boolean;
+  /** Every replication's figures (for `mergeFigures`). */
+  readonly raw: ReplicationData;
 }
 
 function ci(e: { ci95: readonly [number, number] | null }): Interval | null {
   return e.ci95 ? [e.ci95[0], e.ci95[1]] : null;
+}
+
+/**
+ * The figures of each replication, kept so that more replications can be added later and the
+ * summary recomputed (`mergeFigures`). Per class arrays are replication-major: [r · n + k].
+ */
+export interface ReplicationData {
+  readonly n: number;
+  readonly m: number;
+  /** Index of the first replication these rows hold. */
+  readonly first: number;
+  readonly totals: Float64Array;
+  readonly backlog: Float64Array;
+  readonly abandonShare: Float64Array;
+  readonly abandonTotal: Float64Array;
+  readonly immediate: Float64Array;
+  readonly immediateTotal: Float64Array;
+  /** Match rate per edge of each replication ([r · m + e]), original time unit. */
+  readonly matchRates: Float64Array;
 }
 
 /**
@@ -91,30 +118,81 @@ export function simulateDesign(original: CompiledModel, plan: SimPlan, patience?
   const { working, scale } = scaledModel(original);
   const scaledPatience = patience ? Float64Array.from(patience, (p) => (p > 0 && Number.isFinite(p) ? p * scale : Infinity)) : undefined;
   const sim = buildSimModel(working, scaledPatience ? { patience: scaledPatience } : {});
-  const states = streamStates(plan.seed, plan.replications);
+  const first = plan.firstReplication ?? 0;
+  const states = streamStates(plan.seed, first + plan.replications).slice(first);
   const n = working.n;
+  const m = working.m;
   const R = plan.replications;
   const rep = { arrivals: plan.arrivals, warmup: plan.warmup, maxWaiting: plan.maxWaiting, timed: false, noQuantiles: true };
-  const totals = new Float64Array(R);
-  const perClass = Array.from({ length: n }, () => new Float64Array(R));
-  const abandonPer = Array.from({ length: n }, () => new Float64Array(R));
-  const immPer = Array.from({ length: n }, () => new Float64Array(R));
-  const abandonTot = new Float64Array(R);
-  const immTot = new Float64Array(R);
-  const matchSum = new Float64Array(working.m);
+  const raw: ReplicationData = {
+    n,
+    m,
+    first,
+    totals: new Float64Array(R),
+    backlog: new Float64Array(R * n),
+    abandonShare: new Float64Array(R * n),
+    abandonTotal: new Float64Array(R),
+    immediate: new Float64Array(R * n),
+    immediateTotal: new Float64Array(R),
+    matchRates: new Float64Array(R * m),
+  };
   for (let i = 0; i < R; i++) {
-    const r = runReplication(sim, rep, i, states[i]!);
-    totals[i] = r.backlogTotal;
-    abandonTot[i] = r.abandonShareTotal;
-    immTot[i] = r.immediateTotal;
+    const r = runReplication(sim, rep, first + i, states[i]!);
+    raw.totals[i] = r.backlogTotal;
+    raw.abandonTotal[i] = r.abandonShareTotal;
+    raw.immediateTotal[i] = r.immediateTotal;
     for (let k = 0; k < n; k++) {
-      perClass[k]![i] = r.backlog[k]!;
-      abandonPer[k]![i] = r.abandonShare[k]!;
-      immPer[k]![i] = r.immediate[k]!;
+      raw.backlog[i * n + k] = r.backlog[k]!;
+      raw.abandonShare[i * n + k] = r.abandonShare[k]!;
+      raw.immediate[i * n + k] = r.immediate[k]!;
     }
-    for (let e = 0; e < working.m; e++) matchSum[e] += r.matchRates[e]!;
+    // match rates came out per scaled time unit: multiply back
+    for (let e = 0; e < m; e++) raw.matchRates[i * m + e] = r.matchRates[e]! * scale;
   }
-  const total = estimate(totals);
+  return figuresOf(raw, plan.arrivals, sim.impatient);
+}
+
+/** The replications of `a` followed by those of `b` (b must start where a ends). */
+function concatData(a: ReplicationData, b: ReplicationData): ReplicationData {
+  if (a.n !== b.n || a.m !== b.m) throw new RangeError('replications of different models cannot be merged');
+  const ra = a.totals.length;
+  if (b.first !== a.first + ra) throw new RangeError(`replications ${b.first}… do not continue ${a.first}…${a.first + ra - 1}`);
+  const cat = (x: Float64Array, y: Float64Array): Float64Array => {
+    const out = new Float64Array(x.length + y.length);
+    out.set(x);
+    out.set(y, x.length);
+    return out;
+  };
+  return {
+    n: a.n,
+    m: a.m,
+    first: a.first,
+    totals: cat(a.totals, b.totals),
+    backlog: cat(a.backlog, b.backlog),
+    abandonShare: cat(a.abandonShare, b.abandonShare),
+    abandonTotal: cat(a.abandonTotal, b.abandonTotal),
+    immediate: cat(a.immediate, b.immediate),
+    immediateTotal: cat(a.immediateTotal, b.immediateTotal),
+    matchRates: cat(a.matchRates, b.matchRates),
+  };
+}
+
+/**
+ * The figures of a design simulated further: `more` holds the replications that follow those of
+ * `figures` on the same streams (plan.firstReplication = the replications so far). The result
+ * equals one simulation of all the replications at once.
+ */
+export function mergeFigures(figures: SimFigures, more: SimFigures): SimFigures {
+  if (figures.arrivals !== more.arrivals) throw new RangeError('replications of different lengths cannot be merged');
+  return figuresOf(concatData(figures.raw, more.raw), figures.arrivals, figures.impatient);
+}
+
+/** Means and 95 % intervals of the replications' figures. */
+function figuresOf(raw: ReplicationData, arrivals: number, impatient: boolean): SimFigures {
+  const { n, m } = raw;
+  const R = raw.totals.length;
+  const column = (x: Float64Array, k: number, width: number): Float64Array => Float64Array.from({ length: R }, (_, i) => x[i * width + k]!);
+  const total = estimate(raw.totals);
   const backlog = new Float64Array(n);
   const lo = new Float64Array(n);
   const hi = new Float64Array(n);
@@ -123,39 +201,44 @@ export function simulateDesign(original: CompiledModel, plan: SimPlan, patience?
   const abandonHi = new Float64Array(n);
   const immediate = new Float64Array(n);
   for (let k = 0; k < n; k++) {
-    const e = estimate(perClass[k]!);
+    const e = estimate(column(raw.backlog, k, n));
     backlog[k] = e.mean;
     lo[k] = e.ci95 ? e.ci95[0] : e.mean;
     hi[k] = e.ci95 ? e.ci95[1] : e.mean;
-    if (sim.impatient) {
-      const a = estimate(abandonPer[k]!);
+    if (impatient) {
+      const a = estimate(column(raw.abandonShare, k, n));
       abandonShare[k] = a.mean;
       abandonLo[k] = a.ci95 ? a.ci95[0] : a.mean;
       abandonHi[k] = a.ci95 ? a.ci95[1] : a.mean;
     }
-    immediate[k] = estimate(immPer[k]!).mean;
+    immediate[k] = estimate(column(raw.immediate, k, n)).mean;
   }
-  const ab = estimate(abandonTot);
-  // match rates came out per scaled time unit: multiply back
-  const matchRates = Float64Array.from(matchSum, (x) => (x / R) * scale);
+  const ab = estimate(raw.abandonTotal);
+  const matchRates = new Float64Array(m);
+  for (let e = 0; e < m; e++) {
+    let sum = 0;
+    for (let i = 0; i < R; i++) sum += raw.matchRates[i * m + e]!;
+    matchRates[e] = sum / R;
+  }
   return {
     backlogTotal: total.mean,
     backlogCi95: ci(total),
     backlog,
     backlogLo: lo,
     backlogHi: hi,
-    perReplication: totals,
+    perReplication: raw.totals,
     abandonShare,
     abandonShareLo: abandonLo,
     abandonShareHi: abandonHi,
-    abandonShareTotal: sim.impatient ? ab.mean : 0,
-    abandonShareCi95: sim.impatient ? ci(ab) : null,
+    abandonShareTotal: impatient ? ab.mean : 0,
+    abandonShareCi95: impatient ? ci(ab) : null,
     immediate,
-    immediateTotal: estimate(immTot).mean,
+    immediateTotal: estimate(raw.immediateTotal).mean,
     matchRates,
     replications: R,
-    arrivals: plan.arrivals,
-    impatient: sim.impatient,
+    arrivals,
+    impatient,
+    raw,
   };
 }
 

@@ -26,8 +26,9 @@ import { checkStability } from '../../stability/check.js';
 import { seededRandom } from '../../random.js';
 import { baselines as buildBaselines, type BaselineName } from './baselines.js';
 import { DesignEvaluator, overAbandonmentLimit, scoreSpecOf, type DesignRecord, type ScoringChoice } from '../scoring/evaluator.js';
-import { hasPatience, simulatesAlways, type Score, type ScoreMethod, type SimulatedFigures } from '../scoring/score.js';
+import { extendedScore, hasPatience, simulatesAlways, type Score, type ScoreMethod, type SimulatedFigures } from '../scoring/score.js';
 import { pairedDifference, reportPlan, searchPlan, type PairedDifference } from '../scoring/sim-score.js';
+import { allocateReplications, allocationPlan, INDIFFERENCE, limitInsideInterval, negligibleDifference, type AllocationRecord } from './allocation.js';
 import { exhaustiveSearch, MAX_EXHAUSTIVE_TOGGLES } from './exhaustive.js';
 import { paretoLocalSearch } from './local-search.js';
 import { budgetLadder, cheapestStableDesign, maxMinFlowDesign, type MilpDesign } from './milp.js';
@@ -135,8 +136,11 @@ export interface DesignDetails extends SimulatedFigures {
   /** Simulated: ends of the 95 % interval of each class's wait. */
   readonly waitLo?: Float64Array;
   readonly waitHi?: Float64Array;
-  /** On the front, simulated: backlog of this design minus that of the next cheaper one (paired, same streams). */
-  readonly vsCheaper?: PairedDifference;
+  /**
+   * On the front, simulated: backlog of this design minus that of the next cheaper one (paired, same
+   * streams); `negligible`: the whole interval lies within ±1 % of the cheaper design's backlog.
+   */
+  readonly vsCheaper?: PairedDifference & { readonly negligible: boolean };
 }
 
 export interface BaselineResult extends DesignDetails {
@@ -190,6 +194,8 @@ export interface Recommendation {
   readonly limitsChecked?: boolean;
   /** Pareto designs of the search dropped because the final re-score put them over an abandonment limit. */
   readonly overLimitAfterRescore?: number;
+  /** Simulated re-score: the replications added where the ranking was uncertain (allocation.ts). */
+  readonly allocation?: AllocationRecord;
 }
 
 /** True when some class of the problem has a maxAbandonment. */
@@ -328,8 +334,44 @@ function withComparisons(front: DesignDetails[]): DesignDetails[] {
   return front.map((d, i) => {
     const prev = front[i - 1];
     if (!prev || !d.perReplication || !prev.perReplication) return d;
-    return { ...d, vsCheaper: pairedDifference(d.perReplication, prev.perReplication) };
+    const diff = pairedDifference(d.perReplication, prev.perReplication);
+    return { ...d, vsCheaper: { ...diff, negligible: negligibleDifference(diff, prev.backlogTotal, INDIFFERENCE) } };
   });
+}
+
+/**
+ * The open questions of the re-scored figures (allocation.ts): along the Pareto set of the search's
+ * designs rebuilt from `scores`, each design against the next cheaper one; each search design left
+ * off that set against the design that dominates it (the best on the set at its cost); each design
+ * with a limit inside its abandonment interval. A pair is open unless its paired difference is
+ * significant or negligible.
+ */
+function openQuestions(problem: DesignProblem, objective: ObjectiveName, designs: readonly DesignRecord[], scores: ReadonlyMap<string, Score>): string[][] {
+  const points = designs.flatMap((r) => {
+    const s = scores.get(r.key);
+    if (!s?.stable || !s.perReplication) return [];
+    const value = objectiveValue(objective, s.backlogTotal, s.backlog ?? undefined, problem.rates, problem.weight, undefined, s.abandonShareTotal);
+    return [{ key: r.key, cost: r.cost, objective: value, changes: r.changes, s }];
+  });
+  const admissible = points.filter((p) => !overAbandonmentLimit(problem, p.s.abandonShare));
+  const front = paretoFront(admissible);
+  const open: string[][] = [];
+  const pair = (cheaper: (typeof points)[number], other: (typeof points)[number]): void => {
+    const diff = pairedDifference(other.s.perReplication!, cheaper.s.perReplication!);
+    if (!diff.significant && !negligibleDifference(diff, cheaper.s.backlogTotal, INDIFFERENCE)) open.push([cheaper.key, other.key]);
+  };
+  for (let i = 1; i < front.length; i++) pair(front[i - 1]!, front[i]!);
+  const onFront = new Set(front.map((p) => p.key));
+  for (const p of admissible) {
+    if (onFront.has(p.key)) continue;
+    let best: (typeof points)[number] | undefined;
+    for (const f of front) if (f.cost <= p.cost + 1e-9) best = f;
+    if (best) pair(best, p);
+  }
+  for (const p of points) {
+    if (limitInsideInterval(problem.maxAbandonment, p.s.abandonShareLo, p.s.abandonShareHi)) open.push([p.key]);
+  }
+  return open;
 }
 
 /**
@@ -464,6 +506,7 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
     let simulated = 0;
     for (const r of evaluator.records()) if (r.method === 'simulation') simulated++;
     let details: (design: Uint8Array) => DesignDetails = (design) => designDetails(problem, objective, design, options.maxSets);
+    let allocation: AllocationRecord | undefined;
     if (finalSpec) {
       // one batch on the pool: the front, the baselines and today's design, in input order
       const batch = [...front.map((r) => r.design), ...base.map((b) => b.design), Uint8Array.from(problem.today)];
@@ -477,8 +520,30 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       } finally {
         await rescorer.close();
       }
-      const byKey = new Map(batch.map((d, i) => [designKey(d), scores[i]!] as const));
-      details = (design) => detailsOfScore(problem, objective, design, byKey.get(designKey(design))!, options.maxSets);
+      let byKey = new Map(batch.map((d, i) => [designKey(d), scores[i]!] as const));
+      if (!partial && front.some((r) => byKey.get(r.key)?.method === 'simulation')) {
+        // sequential allocation: more replications where the ranking of the returned set is uncertain
+        const designs = new Map(front.map((r) => [r.key, r.design] as const));
+        const done = await allocateReplications({
+          plan: allocationPlan(finalSpec.sim!.replications),
+          scores: byKey,
+          open: (sc) => openQuestions(problem, objective, front, sc),
+          extend: async (list, first, count) => {
+            const more = createScorer({ ...finalSpec, sim: { ...finalSpec.sim!, firstReplication: first, replications: count } }, options.jobs ?? 1, url);
+            try {
+              return await more.score(list.map((key) => designs.get(key)!));
+            } finally {
+              await more.close();
+            }
+          },
+          merge: (a, b) => extendedScore(finalSpec, a, b),
+          stopped,
+        });
+        byKey = done.scores;
+        allocation = done.record;
+      }
+      const finalScores = byKey;
+      details = (design) => detailsOfScore(problem, objective, design, finalScores.get(designKey(design))!, options.maxSets);
     }
     const limited = hasAbandonmentLimits(problem);
     const rescoredAll = front.map((r) => details(r.design));
@@ -541,6 +606,7 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       simulated,
       ...(designLimit === undefined ? {} : { designLimit }),
       ...(limited ? { limitsChecked, overLimitAfterRescore } : {}),
+      ...(allocation ? { allocation } : {}),
     };
   } finally {
     await scorer.close();

@@ -88,6 +88,12 @@ function limitsCell(e: DesignFigures): string {
   return noise.length > 0 ? `noise: ${list(noise)}` : 'within';
 }
 
+/** "lower", "higher" (significant), "within 1 %" (negligible) or "not distinguishable". */
+function vsCheaperCell(v: NonNullable<DesignFigures['vsCheaper']>): string {
+  if (v.significant) return v.backlogDifference < 0 ? 'lower' : 'higher';
+  return v.negligible ? 'within 1 %' : 'not distinguishable';
+}
+
 function frontRow(d: DecisionPart, e: DesignFigures & { recommended?: boolean }, i: number, scale: WaitScale, simulated = false, abandon = false, limits = false): string[] {
   return [
     `${e.recommended ? '→ ' : ''}${i + 1}`,
@@ -99,7 +105,7 @@ function frontRow(d: DecisionPart, e: DesignFigures & { recommended?: boolean },
     e.spareCapacity === null ? '—' : num(e.spareCapacity),
     ...(abandon ? [e.abandonShare === undefined ? '—' : pct(e.abandonShare)] : []),
     ...(limits ? [limitsCell(e)] : []),
-    ...(simulated ? [e.vsCheaper ? (e.vsCheaper.significant ? (e.vsCheaper.backlogDifference < 0 ? 'lower' : 'higher') : 'not distinguishable') : i === 0 ? '' : '—'] : []),
+    ...(simulated ? [e.vsCheaper ? vsCheaperCell(e.vsCheaper) : i === 0 ? '' : '—'] : []),
     changesText(e.added, e.removed),
   ];
 }
@@ -138,7 +144,7 @@ export function recommendText(r: RecommendRecord, o: { readonly waitUnit?: strin
       },
       `Pareto set, cheapest first (no design is both cheaper and better${r.objectiveBetter === 'higher' ? ` — better is a higher ${r.objectiveLabel}: value of matches − ${r.waitingCost === null ? 'waiting cost (none in the file)' : `${num(r.waitingCost)} per waiting item per ${unitName(r.timeUnit)} × backlog`}; the net value rises along the set` : ''}${r.partial ? '; INTERRUPTED: what was found so far' : ''}; → the recommended design)` +
         (simulated
-          ? '; backlogs simulated: ± is the half-width of the 95 % interval, and "vs previous" compares with the design above under the same random streams (lower or higher only when the paired difference is significant)' +
+          ? '; backlogs simulated: ± is the half-width of the 95 % interval, and "vs previous" compares with the design above under the same random streams (lower or higher only when the paired difference is significant; "within 1 %" when its whole interval is within 1 % of the previous backlog)' +
             (abandon ? '; "abandoning" is the share of all arrivals that give up' : '') +
             (limits ? '; "abandonment limits": every limited class within its maxAbandonment, or "noise" where its interval contains the limit' : '') +
             ':'
@@ -178,5 +184,19 @@ export function recommendText(r: RecommendRecord, o: { readonly waitUnit?: strin
         ` · the cheapest stable design costs ${num(s.cheapestStableCost)}`,
     ),
   );
+  if (s.allocation) blocks.push(para(allocationWords(s.allocation)));
   return blocks;
+}
+
+/** What the sequential allocation of the re-score did, in one sentence. */
+export function allocationWords(a: NonNullable<RecommendRecord['search']['allocation']>): string {
+  const head = `Re-score: ${a.initialReplications} replications a design`;
+  if (a.extended === 0) return `${head}; every comparison was settled with them (significant, or within ${pct(a.indifference)}), so none needed more.`;
+  return (
+    `${head}; ${count(a.openAtStart)} comparison${a.openAtStart === 1 ? ' was' : 's were'} not settled by them, so ${count(a.extended)} design${a.extended === 1 ? '' : 's'} got more (${count(a.extraReplications)} replications in ${a.rounds} round${a.rounds === 1 ? '' : 's'}, at most ${a.maxReplications} a design)` +
+    (a.stopped ? '; interrupted before it finished' : '') +
+    (a.unresolved > 0
+      ? `; ${count(a.unresolved)} comparison${a.unresolved === 1 ? ' is' : 's are'} still not settled (not distinguishable, or a limit inside an interval).`
+      : '; every comparison is now settled.')
+  );
 }

@@ -38,9 +38,14 @@ export interface Fit {
 
 const SEP = '  ';
 
+/** The widest piece a cell wraps to: a word, or a class name with the "↔" that follows it ("a ↔"). */
 function longestWord(s: string): number {
   let m = 0;
-  for (const w of s.split(/\s+/)) m = Math.max(m, width(w));
+  const words = s.split(/\s+/);
+  for (let i = 0; i < words.length; i++) {
+    if (words[i] === '↔' && i > 0) continue;
+    m = Math.max(m, width(words[i]!) + (words[i + 1] === '↔' ? 2 : 0));
+  }
   return m;
 }
 

@@ -20,6 +20,12 @@ export function pad(s: string, w: number, align: 'left' | 'right'): string {
 
 /** Splits a word that is wider than `w` into pieces of at most `w` columns. */
 function hardBreak(word: string, w: number): string[] {
+  // "name ↔": break the name, and the arrow ends the last piece
+  if (word.endsWith(' ↔') && w > 2) {
+    const pieces = hardBreak(word.slice(0, -2), w - 2);
+    pieces[pieces.length - 1] += ' ↔';
+    return pieces;
+  }
   const out: string[] = [];
   let cur = '';
   for (const ch of word) {
@@ -59,6 +65,21 @@ function glued(words: readonly string[]): string[] {
   return marked;
 }
 
+/** The pieces of a glued unit too wide for a line: "a ↔" and "b" first; then at spaces, "↔" kept with the word before it. */
+function splitWide(word: string): string[] {
+  const at = word.indexOf(' ↔ ');
+  if (at >= 0) return [word.slice(0, at + 2), word.slice(at + 3)];
+  // a change marker stays with its class name ("+ a ↔" is broken by hardBreak, never after the "+")
+  if (/^[+−] /.test(word)) return [word];
+  const parts = word.split(' ');
+  const out: string[] = [];
+  for (const p of parts) {
+    if (p === '↔' && out.length > 0) out[out.length - 1] += ' ↔';
+    else out.push(p);
+  }
+  return out;
+}
+
 /**
  * Wraps text to lines of at most `w` columns, breaking at spaces but not inside a pair "a ↔ b"
  * unless the pair is wider than the line; a word wider than the line is broken where it must.
@@ -82,8 +103,10 @@ export function wrap(text: string, w: number, indent = ''): string[] {
         cur += ` ${word}`;
         continue;
       }
-      if (word.includes(' ') && width(word) > limit - width(indent)) {
-        words.splice(i, 1, ...word.split(' ')); // a pair wider than any line: break it at its spaces
+      if (word.includes(' ') && width(word) > limit - width(indent) && splitWide(word).length > 1) {
+        // a pair wider than any line: break it after its "↔" (the arrow ends the line, never starts
+        // one), then, if still too wide, at its other spaces
+        words.splice(i, 1, ...splitWide(word));
         i--;
         continue;
       }
