@@ -33,7 +33,7 @@ table.sim th.group { text-align: center; border-bottom: 1px solid ${RULE}; }
 th, td { text-align: left; padding: 6px 8px; border-bottom: 1px solid ${RULE}; vertical-align: top; }
 th { font-weight: 600; color: #3b4250; background: ${PANEL}; border-bottom: 2px solid ${RULE}; }
 td.n, th.n { text-align: right; white-space: nowrap; }
-.name, td.id { white-space: nowrap; }
+.name, td.id, .keep { white-space: nowrap; }
 tr.flag-bad td { background: #fff4e8; }
 tr.flag-good td { background: #eef5fb; }
 .tag { display: inline-block; font-size: 11.5px; font-weight: 700; padding: 1px 7px; border-radius: 10px; border: 1.5px solid; white-space: nowrap; }

@@ -98,7 +98,8 @@ function figure(id: string, chart: Markup, caption: Markup | string): Markup {
 function pairMarkup(p: readonly [string, string], name: Namer): Markup {
   const text = pairText(p, (id) => (id === p[0] ? '\u0000' : '\u0001'));
   const one = (id: string): string => html`<span class="name">${name(id)}</span>`.html;
-  return raw(escapeHtml(text).replace(/\u0000/g, one(p[0])).replace(/\u0001/g, one(p[1])));
+  // "a ↔" kept on one line (the text stays "a ↔ b"): a line may break after the arrow, never before it
+  return raw(escapeHtml(text).replace('\u0000 ↔ ', '<span class="keep">\u0000 ↔</span> ').replace(/\u0000/g, one(p[0])).replace(/\u0001/g, one(p[1])));
 }
 
 /** "a, b and c" over markup (the same words as listWords). */
@@ -198,18 +199,37 @@ function paretoSection(r: ReportRecord, name: Namer): Markup {
     itemWord: r.itemWord,
   });
   const shown = frontRows(d.pareto);
+  const giving = d.pareto.some((p) => p.abandonShare !== undefined);
+  const limited = d.pareto.some((p) => p.abandonmentLimits !== undefined);
+  const interval = (p: (typeof shown)[number]): string => (p.backlogCi95 ? ` (${num(p.backlogCi95[0])}–${num(p.backlogCi95[1])})` : '');
   const rows = shown.map(
     (p) =>
-      html`<tr${p.recommended ? raw(' class="flag-good"') : ''}><td class="n">${num(p.cost)}</td><td class="n">${p.backlog === null ? '—' : num(p.backlog)}</td><td class="n">${p.maxWait === null ? '—' : num(p.maxWait)}</td><td>${changeList(p, name)}${p.recommended ? html` <span class="tag good">recommended</span>` : ''}</td></tr>`,
+      html`<tr${p.recommended ? raw(' class="flag-good"') : ''}><td class="n">${num(p.cost)}</td><td class="n">${p.backlog === null ? '—' : num(p.backlog) + interval(p)}</td><td class="n">${p.maxWait === null ? '—' : num(p.maxWait)}</td>${giving ? html`<td class="n">${p.abandonShare === undefined ? '—' : pct(p.abandonShare)}</td>` : ''}${limited ? html`<td>${limitsWords(p.abandonmentLimits, name)}</td>` : ''}<td>${changeList(p, name)}${p.recommended ? html` <span class="tag good">recommended</span>` : ''}</td></tr>`,
   );
+  const simulatedFront = d.pareto.some((p) => p.method === 'simulation');
   const base = d.baselines.map((b) => {
-    const verdict = !b.stable ? 'cannot keep up' : !b.withinBudget ? 'over the budget' : b.gap === null ? '—' : b.gap > 1e-9 * Math.max(1, b.objective ?? 1) ? `${num(b.gap)} more than the best design at this cost` : 'as good as the best design at this cost';
+    const verdict = !b.stable
+      ? 'cannot keep up'
+      : b.gap === null
+        ? (b.noGap ?? '—')
+        : b.gap > 1e-9 * Math.max(1, b.objective ?? 1)
+          ? `${num(b.gap)} more than the best design at this cost`
+          : 'as good as the best design at this cost';
     return html`<tr><td>${b.name}</td><td class="n">${num(b.cost)}</td><td class="n">${b.backlog === null ? 'unstable' : num(b.backlog)}</td><td>${verdict}</td></tr>`;
   });
   return html`<p class="explain">Each dot of the front is a design that no other design beats on both cost and waiting: moving right buys less waiting. The grey shapes are rules of thumb to compare against. Costs count added candidates minus the savings of dropped compatibilities, in ${costUnit}.</p>
 ${figure('chart-pareto', chart, `Added cost (${costUnit}) against the mean number of ${r.itemWord} waiting.`)}
-<h3>The best designs</h3>${shown.length < d.pareto.length ? html`<p class="muted">${shown.length} of the ${d.pareto.length} designs of the front, spread over its cost range (the recommended one included); <code>edgewise recommend</code> lists them all.</p>` : ''}<table><thead><tr><th class="n">cost</th><th class="n">${r.itemWord} waiting</th><th class="n">longest mean wait (${plural(r.timeUnit)})</th><th>changes to today's design</th></tr></thead><tbody>${rows}</tbody></table>
+<h3>The best designs</h3>${shown.length < d.pareto.length ? html`<p class="muted">${shown.length} of the ${d.pareto.length} designs of the front, spread over its cost range (the recommended one included); <code>edgewise recommend</code> lists them all.</p>` : ''}${simulatedFront ? html`<p class="muted">Simulated figures: the number waiting with its 95 % interval${giving ? '; "giving up" is the share of all arrivals that abandon' : ''}${limited ? '; "abandonment limits" compares each limited class with its maxAbandonment ("within noise" where the interval contains the limit, so the simulation cannot tell the side)' : ''}.</p>` : ''}<table><thead><tr><th class="n">cost</th><th class="n">${r.itemWord} waiting</th><th class="n">longest mean wait (${plural(r.timeUnit)})</th>${giving ? html`<th class="n">giving up</th>` : ''}${limited ? html`<th>abandonment limits</th>` : ''}<th>changes to today's design</th></tr></thead><tbody>${rows}</tbody></table>
 <h3>Rules of thumb for comparison</h3><table><thead><tr><th>design</th><th class="n">cost</th><th class="n">${r.itemWord} waiting</th><th>against the front</th></tr></thead><tbody>${base}</tbody></table>`;
+}
+
+/** A design's abandonment limits in words: "within every limit", "within noise: a, b", "over: a". */
+function limitsWords(limits: ReadonlyArray<{ class: string; within: boolean; withinNoise: boolean }> | undefined, name: Namer): string {
+  if (!limits) return '—';
+  const over = limits.filter((l) => !l.within).map((l) => name(l.class));
+  if (over.length > 0) return `over: ${over.join(', ')}`;
+  const noise = limits.filter((l) => l.withinNoise).map((l) => name(l.class));
+  return noise.length > 0 ? `within noise: ${noise.join(', ')}` : 'within every limit';
 }
 
 function waitSection(r: ReportRecord, name: Namer): Markup {

@@ -13,6 +13,7 @@ import { paretoFront } from '../design/space/pareto.js';
 import { changeCount } from '../design/space/problem.js';
 import { designDetails, NO_VALUES_MESSAGE, recommend, type DesignDetails, type Recommendation, type RecommendOptions } from '../design/search/recommend.js';
 import type { AllocationRecord } from '../design/search/allocation.js';
+import { overAbandonmentLimit } from '../design/scoring/evaluator.js';
 import type { ScenarioContext } from './context.js';
 import { recordBase } from './context.js';
 import { changePairs, designFigures, verdictRecord, type DesignFigures, type VerdictRecord } from './designs.js';
@@ -38,6 +39,12 @@ export interface BaselineEntry extends DesignFigures {
   readonly harmful: PairIds[];
   /** Comparable with the Pareto set: stable, within budget and limits, targets met. */
   readonly feasible: boolean;
+  /**
+   * Why it has no gap to the Pareto set (null when it has one): "unstable", "over budget",
+   * "exceeds maxCompatibilities", "misses a wait target", "over an abandonment limit",
+   * "nothing that cheap in the set". The text, the report and the JSON give the same reason.
+   */
+  readonly noGap: string | null;
   /** Best objective of the Pareto set at this cost or below, as shown (null when not comparable). */
   readonly frontAtCost: number | null;
   /**
@@ -229,6 +236,19 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
       meetsTargets: b.meetsTargets,
       harmful: b.harmful.map(pair),
       feasible: b.feasible,
+      noGap: Number.isFinite(b.gap)
+        ? null
+        : !b.stable
+          ? 'unstable'
+          : !b.withinBudget
+            ? 'over budget'
+            : !b.withinLimits
+              ? 'exceeds maxCompatibilities'
+              : !b.meetsTargets
+                ? 'misses a wait target'
+                : overAbandonmentLimit(p, b.abandonShare)
+                  ? 'over an abandonment limit'
+                  : 'nothing that cheap in the set',
       frontAtCost: b.feasible ? finite(sign * b.frontValue) : null,
       gap: finite(b.gap),
       relativeGap: Number.isFinite(b.gap) && b.objective !== 0 ? b.gap / Math.abs(b.objective) : null,

@@ -3,7 +3,7 @@
  * the limit is not in the Pareto set), the warning when the figures cannot check it, and
  * `--objective abandonment` refused where there is no abandonment.
  */
-import { mkdtempSync } from 'node:fs';
+import { mkdtempSync, readFileSync } from 'node:fs';
 import { tmpdir } from 'node:os';
 import { join } from 'node:path';
 import { describe, expect, it } from 'vitest';
@@ -11,6 +11,7 @@ import { recommendCommand } from '../../src/cli/commands/recommend.js';
 import { evaluateCommand } from '../../src/cli/commands/evaluate.js';
 import { sensitivityCommand } from '../../src/cli/commands/sensitivity.js';
 import { sweepCommand } from '../../src/cli/commands/sweep.js';
+import { reportCommand } from '../../src/cli/commands/report.js';
 import { runCommand, writeScenario } from '../helpers/cli.js';
 
 const dir = mkdtempSync(join(tmpdir(), 'edgewise-abandon-'));
@@ -82,6 +83,20 @@ describe('maxAbandonment', () => {
     // CSV carries the columns
     const csv = await runCommand(recommendCommand, { file: join(dir, 'limited.json'), csv: true } as never, dir);
     expect(csv.out.split('\n')[0]).toMatch(/abandonShare,overAbandonmentLimit,abandonmentWithinNoise/);
+    // a rule of thumb without a gap says why; one over a limit says so
+    for (const b of r.baselines) {
+      expect(b.gap === undefined).toBe(b.noGap !== undefined); // the JSON leaves out null fields
+      if (b.stable && b.withinBudget && b.withinLimits && b.abandonmentLimits?.some((x: { within: boolean }) => !x.within)) expect(b.noGap).toBe('over an abandonment limit');
+    }
+    // the report's table of the best designs shows each design's standing against the limit, as the JSON does
+    const page = join(dir, 'limited.html');
+    const rep = await runCommand(reportCommand, { file: join(dir, 'limited.json'), output: page } as never, dir);
+    expect(rep.code).toBe(0);
+    const html = readFileSync(page, 'utf8');
+    expect(html).toMatch(/<th>abandonment limits<\/th>/);
+    expect(html).toMatch(/<th class="n">giving up<\/th>/);
+    expect(html).toMatch(/within every limit|within noise: a/);
+    expect(html).not.toMatch(/over: a/);
   });
 
   it('recommend --score exact: a warning says the limits were not checked', async () => {

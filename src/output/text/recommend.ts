@@ -165,8 +165,7 @@ export function recommendText(r: RecommendRecord, o: { readonly waitUnit?: strin
           { header: 'how it is built', wrap: true, secondary: true },
         ],
         rows: r.baselines.map((b) => {
-          const why = !b.stable ? 'unstable' : !b.withinBudget ? 'over budget' : !b.withinLimits ? 'exceeds maxCompatibilities' : !b.meetsTargets ? 'misses a wait target' : '';
-          const gap = b.gap === null ? why || 'nothing that cheap in the set' : `${num(b.gap)}${b.relativeGap === null ? '' : ` (${pct(b.relativeGap)})`}`;
+          const gap = b.gap === null ? (b.noGap ?? '—') : `${num(b.gap)}${b.relativeGap === null ? '' : ` (${pct(b.relativeGap)})`}`;
           const harmful = b.harmful.length > 0 ? `; pays for harmful ${b.harmful.map((p) => pairText(p)).join(', ')}` : '';
           return [b.name, num(b.cost), objectiveValue(r, b.objective, scale), b.frontAtCost === null ? '—' : objectiveValue(r, b.frontAtCost, scale), gap, b.note + harmful];
         }),
