@@ -9,8 +9,8 @@
  *   file: share of the returned designs whose 95 % interval covers their exact backlog
  *   (evaluateExact), and the largest relative distance of their exact backlog above the exact front
  *   at the same cost (the exact search's front: the reference is the exact search, not every design).
- * - scale: 60 and 100 classes × 50 candidates, `--score simulation --jobs 2` from dist/ (worker
- *   threads): wall time, designs scored, size of the front.
+ * - scale: 60, 100 and 200 classes × 50 candidates, `--score simulation --jobs 2` from dist/ (worker
+ *   threads): wall time, designs scored, size of the front, replications the re-score added.
  * - contract80: 80 classes × 50 candidates, `recommend --json` under the default `--score auto`
  *   (--jobs 2): wall time, and every returned design checked by code that shares nothing with src/
  *   (bench/_independent-check.ts): stable by the edge-flow LP solved by HiGHS directly, and its
@@ -42,7 +42,7 @@ interface Entry {
   removed: Pair[];
 }
 
-function run(file: string, args: string[]): { rec: { pareto: Entry[]; search: { scored: number; designLimit: number | null } }; seconds: number } {
+function run(file: string, args: string[]): { rec: { pareto: Entry[]; search: { scored: number; designLimit: number | null; allocation?: { openAtStart: number; initialReplications: number; extended: number; extraReplications: number; unresolved: number } } }; seconds: number } {
   const t0 = performance.now();
   const p = spawnSync(process.execPath, [cli, 'recommend', file, '--json', ...args], { encoding: 'utf8', maxBuffer: 1 << 28 });
   if (p.status !== 0) throw new Error(`recommend ${args.join(' ')} exited ${p.status}: ${p.stderr}`);
@@ -87,13 +87,15 @@ if (want('accuracy')) {
 
 if (want('scale')) {
   console.log('scale, --score simulation --jobs 2:');
-  for (const groups of [12, 20]) {
+  for (const groups of [12, 20, 40]) {
     const n = groups * 5;
     const { doc } = randomScenario(5, { groups, perGroup: 5, candidates: 50, removableShare: 0.2, budgetShare: 0.6 });
     const file = join(dir, `scale${n}.json`);
     writeFileSync(file, JSON.stringify(doc));
     const r = run(file, ['--score', 'simulation', '--seed', '1', '--jobs', '2']);
-    console.log(`  ${n} classes × 50 candidates: ${r.seconds.toFixed(0)} s, ${r.rec.search.scored} designs scored, front of ${r.rec.pareto.length}`);
+    const a = r.rec.search.allocation;
+    const more = a ? `; re-score: ${a.openAtStart} comparisons open after ${a.initialReplications} replications, ${a.extended} designs given ${a.extraReplications} more, ${a.unresolved} still open` : '';
+    console.log(`  ${n} classes × 50 candidates: ${r.seconds.toFixed(0)} s, ${r.rec.search.scored} designs scored, front of ${r.rec.pareto.length}${more}`);
   }
 }
 

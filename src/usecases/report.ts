@@ -292,8 +292,10 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
   ].filter((w): w is string => w !== null);
   if (simulatedParts.length > 0) {
     const plan = scoringPlan(ctx, scoring);
+    const extended = [decision?.search.allocation, sweep?.simulation?.allocation].filter((a) => a !== undefined && a.extended > 0);
+    const more = extended.length > 0 ? `, more, up to ${extended[0]!.maxReplications}, where a comparison was not settled by them` : '';
     notes.push(
-      `Simulated figures (seed ${input.seed}, the same arrival stream for every design): ${simulatedParts.join('; ')}. Each simulated figure has a 95 % interval (in the JSON record; ${plan.replications} replications of ${plan.arrivals.toLocaleString('en-US')} arrivals), and two designs are called different only when their paired difference is significant.${ctx.patience ? " They include the file's patience: items giving up (abandonment)." : ''}`,
+      `Simulated figures (seed ${input.seed}, the same arrival stream for every design): ${simulatedParts.join('; ')}. Each simulated figure has a 95 % interval (in the JSON record; ${plan.replications} replications of ${plan.arrivals.toLocaleString('en-US')} arrivals${more}), and two designs are called different only when their paired difference is significant.${ctx.patience ? " They include the file's patience: items giving up (abandonment)." : ''}`,
     );
   }
   return {
@@ -327,6 +329,10 @@ export function decisionRecord(r: ReportRecord) {
     scenario: r.scenario,
     timeUnit: r.timeUnit,
     warnings: r.warnings,
+    /** How today's figures were made; each design below has its own `method`. */
+    method: r.method,
+    /** What the page prints under its summary: which sections are simulated, sections left out and why. */
+    notes: r.notes,
     costUnit: r.costUnit,
     budget: r.budget,
     objective: d?.objective ?? null,

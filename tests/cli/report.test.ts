@@ -40,6 +40,20 @@ describe('report command', () => {
     expect(verdicts[1]).toContain('waiting goes from 2.333 to 1.833 items');
   });
 
+  it('--json carries the method of the figures and the notes the page prints', async () => {
+    const r = await run({ file: 'pit.json', output: 'json.html', json: true, score: 'simulation', seed: 2 } as never);
+    expect(r.code).toBe(0);
+    const rec = JSON.parse(r.out);
+    expect(rec.method).toBe('simulation');
+    const page = readFileSync(join(dir, 'json.html'), 'utf8');
+    const { document } = parseHTML(page);
+    const text = document.body.textContent!.replace(/\s+/g, ' ');
+    expect(rec.notes.length).toBeGreaterThan(0);
+    expect(rec.notes.join(' ')).toMatch(/Simulated figures \(seed 2/);
+    // every note of the record is on the page
+    for (const n of rec.notes as string[]) expect(text).toContain(n.replace(/\s+/g, ' ').slice(0, 60));
+  }, 120_000);
+
   it('--budget 0 overrides the scenario: nothing is affordable, keep today', async () => {
     const r = await run({ file: 'pit.json', output: 'zero.html', budget: 0 });
     expect(r.code).toBe(0);
