@@ -127,7 +127,7 @@ scenarioFlags(program.command('recommend').description('budgeted design: the Par
   .option('--exhaustive', 'enumerate every design (at most 20 removable compatibilities and candidates)')
   .option('--seed <s>', 'seed of the local search and of the simulation streams (default 1)')
   .option('--score <method>', 'exact | simulation | auto (default): exact where feasible and no patience, else simulated per design')
-  .option('--max-designs <n>', 'designs a search may score (default: 1500 when designs are simulated; when exact, 1e9 over the set count of a design, at least 300)')
+  .option('--max-designs <n>', 'designs a search may score (default: when simulated, 1500 at 100+ classes, up to 4500 on smaller ones; when exact, 1e9 over the set count of a design, at least 300)')
   .addOption(new Option('--max-sets <n>', 'memory guard of the exact evaluation (independent sets per design)').argParser(Number))
   .option('--wait-unit <unit>', 'show waits in this unit (default: automatic)')
   .option('--save <file>', 'write the recommended design (or --pick K) to a design file for --design')

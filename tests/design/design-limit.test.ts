@@ -58,6 +58,10 @@ describe('the search limit of designs scored', () => {
 
   it('by default counts independent sets when exact: the limit times the largest first design stays within the set budget', async () => {
     expect(defaultDesignLimit(true, [10])).toBe(SIMULATED_SEARCH_DESIGNS);
+    // counted in arrivals: a plan of a third of the longest gives three times the designs
+    expect(defaultDesignLimit(true, [], 20_000)).toBe(3 * SIMULATED_SEARCH_DESIGNS);
+    expect(defaultDesignLimit(true, [], 60_000)).toBe(SIMULATED_SEARCH_DESIGNS);
+    expect(defaultDesignLimit(true, [], 90_000)).toBe(SIMULATED_SEARCH_DESIGNS);
     expect(defaultDesignLimit(false, [])).toBeUndefined();
     for (const sets of [1, 5_000, 30_000, 1_112_270, 7e6, 5e7]) {
       const limit = defaultDesignLimit(false, [sets / 2, sets])!;

@@ -41,6 +41,13 @@ export interface SearchOptions {
    * the limit, and the search stops there (`limitReached`).
    */
   readonly maxDesigns?: number;
+  /**
+   * A second pass once the first has expanded its layers without reaching `maxDesigns`: the same
+   * search state (expansions, penalty verdicts, the evaluator's cache) expanded again with these
+   * layers, up to the same limit. A simulated search starts with the front's add/remove moves only
+   * and then, where the limit leaves room, adds swaps and a second layer.
+   */
+  readonly refine?: { readonly depth: number; readonly swapLayers: number };
 }
 
 export interface SearchResult {
@@ -218,6 +225,9 @@ export async function paretoLocalSearch(evaluator: DesignEvaluator, seeds: reado
   try {
     await evaluator.evaluate(seeds.filter((d) => admissibleBeforeEvaluation(problem, d)));
     rounds = await searchRounds(evaluator, state, options, depth, swapLayers, targets, kicksLeft, (k) => (kicks += k), limit);
+    if (options.refine && !limit.reached) {
+      rounds += await searchRounds(evaluator, state, options, options.refine.depth, options.refine.swapLayers, targets, 0, (k) => (kicks += k), limit);
+    }
   } catch (e) {
     if (!(e instanceof SearchStopped)) throw e;
     return { front: paretoFront(state.pool()), harmful: state.harmful, rounds, kicks, stopped: true, limitReached: limit.reached };

@@ -210,6 +210,8 @@ export function hasAbandonmentLimits(problem: DesignProblem): boolean {
  * hour at 80 classes × 50 candidates.
  */
 export const SIMULATED_SEARCH_DESIGNS = 1500;
+/** The search plan's arrivals a replication at which the limit is SIMULATED_SEARCH_DESIGNS (sim-score.ts: searchPlan's most). */
+const SIMULATED_PLAN_ARRIVALS = 60_000;
 
 /**
  * Independent sets an exact search scores at most by default: the limit of designs is this over
@@ -222,9 +224,14 @@ export const SIMULATED_SEARCH_DESIGNS = 1500;
 export const EXACT_SEARCH_SETS = 1e9;
 export const EXACT_SEARCH_MIN_DESIGNS = 300;
 
-/** The default limit of designs of a search (undefined: none). */
-export function defaultDesignLimit(simulated: boolean, firstSets: readonly number[]): number | undefined {
-  if (simulated) return SIMULATED_SEARCH_DESIGNS;
+/**
+ * The default limit of designs of a search (undefined: none). A simulated search's limit is counted
+ * in arrivals: SIMULATED_SEARCH_DESIGNS designs of the longest search plan (60 000 arrivals a
+ * replication, 100 classes and more), more designs where the plan is shorter (20 000 arrivals at 33
+ * classes and fewer: 4 500 designs).
+ */
+export function defaultDesignLimit(simulated: boolean, firstSets: readonly number[], simArrivals = SIMULATED_PLAN_ARRIVALS): number | undefined {
+  if (simulated) return Math.floor((SIMULATED_SEARCH_DESIGNS * SIMULATED_PLAN_ARRIVALS) / Math.max(1, Math.min(simArrivals, SIMULATED_PLAN_ARRIVALS)));
   const sets = Math.max(0, ...firstSets);
   if (sets <= 0) return undefined;
   return Math.max(EXACT_SEARCH_MIN_DESIGNS, Math.floor(EXACT_SEARCH_SETS / sets));
@@ -337,6 +344,32 @@ function withComparisons(front: DesignDetails[]): DesignDetails[] {
     const diff = pairedDifference(d.perReplication, prev.perReplication);
     return { ...d, vsCheaper: { ...diff, negligible: negligibleDifference(diff, prev.backlogTotal, INDIFFERENCE) } };
   });
+}
+
+/** Relative distance behind the front (at the same cost or less) within which a simulated design is re-scored. */
+export const NEAR_FRONT = 0.03;
+
+/**
+ * The designs of a simulated search just behind its front: admissible, known to pay for no harmful
+ * compatibility (their penalty decided from scored neighbours), off the front, with an objective
+ * within NEAR_FRONT of the front's at their cost. The short run's noise may have put one of them
+ * behind a design that is in truth worse; the longer re-score decides. At most as many as the
+ * front, the closest first.
+ */
+function nearFront(problem: DesignProblem, evaluator: DesignEvaluator, front: readonly DesignRecord[], harmful: ReadonlyMap<string, number[]>): DesignRecord[] {
+  const on = new Set(front.map((r) => r.key));
+  const near: Array<{ r: DesignRecord; gap: number }> = [];
+  for (const r of evaluator.records()) {
+    if (!r.feasible || on.has(r.key) || harmful.has(r.key) || r.method !== 'simulation') continue;
+    const v = frontValueAt(front, r.cost);
+    if (!Number.isFinite(v)) continue;
+    const gap = (r.objective - v) / Math.max(Math.abs(v), 1e-12);
+    if (gap > NEAR_FRONT) continue;
+    const verdict = penaltyVerdict(problem, r.design, r.objective, (key) => evaluator.get(key));
+    if (verdict.known && verdict.harmful.length === 0) near.push({ r, gap });
+  }
+  near.sort((a, b) => a.gap - b.gap || (a.r.key < b.r.key ? -1 : a.r.key > b.r.key ? 1 : 0));
+  return near.slice(0, front.length).map((x) => x.r);
 }
 
 /**
@@ -473,7 +506,7 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
         partial = r.stopped;
       } else {
         phase = 'search';
-        const maxDesigns = options.maxDesigns ?? defaultDesignLimit(simulatedSearch, firstSets);
+        const maxDesigns = options.maxDesigns ?? defaultDesignLimit(simulatedSearch, firstSets, spec.sim?.arrivals);
         const r = await paretoLocalSearch(evaluator, seeds, {
           random: seededRandom(options.seed ?? 1),
           // a simulated search expands the first layer only, without swaps, and kicks less: each
@@ -481,6 +514,8 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
           depth: options.depth ?? (simulatedSearch ? 1 : objective === 'max-wait' ? 4 : 2),
           ...(options.kicks === undefined ? (simulatedSearch ? { kicks: Math.min(problem.toggles.length, 10) } : {}) : { kicks: options.kicks }),
           ...(options.swapLayers === undefined ? (simulatedSearch ? { swapLayers: 0 } : {}) : { swapLayers: options.swapLayers }),
+          // then, where the limit leaves room, swaps on the front and a second layer
+          ...(simulatedSearch && options.depth === undefined && options.swapLayers === undefined ? { refine: { depth: 2, swapLayers: 0 } } : {}),
           ...(maxDesigns === undefined ? {} : { maxDesigns }),
         });
         ({ front, harmful } = r);
@@ -507,9 +542,12 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
     for (const r of evaluator.records()) if (r.method === 'simulation') simulated++;
     let details: (design: Uint8Array) => DesignDetails = (design) => designDetails(problem, objective, design, options.maxSets);
     let allocation: AllocationRecord | undefined;
+    // a simulated search also re-scores the designs just behind its front (within the short run's
+    // noise): the longer run may show one of them ahead of the design that beat it
+    const contenders = finalSpec && simulatedSearch && !partial ? [...front, ...nearFront(problem, evaluator, front, harmful)] : front;
     if (finalSpec) {
-      // one batch on the pool: the front, the baselines and today's design, in input order
-      const batch = [...front.map((r) => r.design), ...base.map((b) => b.design), Uint8Array.from(problem.today)];
+      // one batch on the pool: the front (and the designs near it), the baselines and today's design, in input order
+      const batch = [...contenders.map((r) => r.design), ...base.map((b) => b.design), Uint8Array.from(problem.today)];
       // interrupted: a quick re-score in this thread (the search's length, 5 replications) so the
       // partial answer comes within seconds; the figures keep their intervals
       const quick = { ...finalSpec, sim: { ...finalSpec.sim!, arrivals: spec.sim!.arrivals, warmup: spec.sim!.warmup, replications: 5 } };
@@ -523,11 +561,11 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       let byKey = new Map(batch.map((d, i) => [designKey(d), scores[i]!] as const));
       if (!partial && front.some((r) => byKey.get(r.key)?.method === 'simulation')) {
         // sequential allocation: more replications where the ranking of the returned set is uncertain
-        const designs = new Map(front.map((r) => [r.key, r.design] as const));
+        const designs = new Map(contenders.map((r) => [r.key, r.design] as const));
         const done = await allocateReplications({
           plan: allocationPlan(finalSpec.sim!.replications),
           scores: byKey,
-          open: (sc) => openQuestions(problem, objective, front, sc),
+          open: (sc) => openQuestions(problem, objective, contenders, sc),
           extend: async (list, first, count) => {
             const more = createScorer({ ...finalSpec, sim: { ...finalSpec.sim!, firstReplication: first, replications: count } }, options.jobs ?? 1, url);
             try {
@@ -546,11 +584,13 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       details = (design) => detailsOfScore(problem, objective, design, finalScores.get(designKey(design))!, options.maxSets);
     }
     const limited = hasAbandonmentLimits(problem);
-    const rescoredAll = front.map((r) => details(r.design));
+    const rescoredAll = contenders.map((r) => details(r.design));
     // the search admitted designs within every abandonment limit on its short run; the longer run
-    // may put some over: they leave the set (counted), those whose interval straddles a limit stay, flagged
-    const rescored = rescoredAll.filter((d) => !(d.stable && overAbandonmentLimit(problem, d.abandonShare)));
-    const overLimitAfterRescore = rescoredAll.length - rescored.length;
+    // may put some over: they leave the set (counted among the search's Pareto designs), those
+    // whose interval straddles a limit stay, flagged
+    const over = (d: DesignDetails): boolean => d.stable && overAbandonmentLimit(problem, d.abandonShare);
+    const rescored = rescoredAll.filter((d) => !over(d));
+    const overLimitAfterRescore = rescoredAll.slice(0, front.length).filter(over).length;
     const limitsChecked = limited && rescoredAll.some((d) => d.abandonShare !== undefined && d.method === 'simulation');
     if (rescored.length === 0) {
       throw new InfeasibleDesignError(
