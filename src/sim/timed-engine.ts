@@ -23,7 +23,7 @@ const OVER_LIMIT = -2;
 export interface TimedEngineOptions {
   /**
    * Simulate by competing events (every policy's loop) even where the deadline kernel applies
-   * (FCFM, at most 32 classes): the tests compare the two engines in distribution.
+   * (FCFM): the tests compare the two engines in distribution.
    */
   readonly events?: boolean;
 }
@@ -32,7 +32,7 @@ export interface TimedEngineOptions {
  * The timed engine, for impatient classes (and on request for patient ones): a continuous-time
  * simulation with explicit clock. Two exact ways of simulating the same model, chosen once:
  *
- * Deadlines (FCFM with at most 32 classes): arrivals come at Exp(Λ) gaps; an arrival that waits
+ * Deadlines (FCFM): arrivals come at Exp(Λ) gaps; an arrival that waits
  * draws its own exponential patience, and its deadline (arrival + patience) is stored beside its
  * arrival time. Independent exponential patiences are the model itself, so nothing is
  * approximated, and an arrival is the only event: about two random draws per arrival (gap, class)
@@ -54,7 +54,7 @@ export interface TimedEngineOptions {
  * check), after dropping every expired item: a cap exceeded is found at once when the queues hold
  * no expired items (patient classes), and before the rings hold more than 2 × maxWaiting items.
  *
- * Competing events (every other policy, or more than 32 classes): arrivals at total rate Λ,
+ * Competing events (every other policy): arrivals at total rate Λ,
  * abandonments at rate A = Σ_k γ_k·n_k (γ_k = 1/patience_k, n_k waiting items of class k).
  * Exponential patience is memoryless, so when an abandonment fires the item that leaves is uniform
  * among the n_k items of its class, whatever their ages — exact without per-item deadlines.
@@ -78,7 +78,7 @@ export class TimedEngine {
   readonly counts: Int32Array;
   readonly headVal: Float64Array;
   readonly queues: Queues;
-  /** True when the deadline kernel runs (FCFM, at most 32 classes, not forced to events). */
+  /** True when the deadline kernel runs (FCFM, not forced to competing events). */
   readonly deadlines: boolean;
   private readonly rng: Uint32Array;
   private events = 0;
@@ -109,7 +109,7 @@ export class TimedEngine {
   ) {
     const n = model.n;
     this.rng = Uint32Array.from(rngState);
-    this.deadlines = model.policy === 0 && n <= 32 && options.events !== true;
+    this.deadlines = model.policy === 0 && options.events !== true;
     this.queues = new Queues(n, !this.deadlines, 64, this.deadlines);
     this.counts = this.deadlines ? this.queues.span : new Int32Array(n);
     this.headVal = new Float64Array(n).fill(Infinity);
@@ -129,7 +129,7 @@ export class TimedEngine {
       const { nbrStart, nbr, abandonRate } = model;
       for (let k = 0; k < n; k++) {
         this.patience[k] = abandonRate[k]! > 0 ? 1 / abandonRate[k]! : 0;
-        for (let p = nbrStart[k]!; p < nbrStart[k + 1]!; p++) this.candMask[k] |= 1 << nbr[p]!;
+        if (n <= 32) for (let p = nbrStart[k]!; p < nbrStart[k + 1]!; p++) this.candMask[k] |= 1 << nbr[p]!;
       }
       // run the kernel's code after its loop once (see ChainEngine's constructor)
       this.deadlineChunk(0);
@@ -307,6 +307,10 @@ export class TimedEngine {
     const bits = BIN_BITS;
     const tail = expBeyond;
     const scale = n * TWO_POW_M32;
+    // at most 32 classes: a mask of the classes with queued items, intersected with the arrival's
+    // candidates (as in the patient engine); otherwise a scan of the candidate list
+    const masked = n <= 32;
+    const { nbrStart, nbr } = model;
     const rng = this.rng;
     let s0 = rng[0]! | 0;
     let s1 = rng[1]! | 0;
@@ -316,7 +320,7 @@ export class TimedEngine {
     let waiting = this.waiting;
     const limit = this.limit;
     let busy = 0;
-    for (let k = 0; k < n; k++) if (span[k]! > 0) busy |= 1 << k;
+    if (masked) for (let k = 0; k < n; k++) if (span[k]! > 0) busy |= 1 << k;
     let exit = -1;
     let done = 0;
     while (done < count) {
@@ -360,12 +364,22 @@ export class TimedEngine {
       let k = xf | 0;
       if (xf - k >= keep[k]!) k = alias[k]!;
       // the oldest live item among the candidates, expired heads dropped on the way
-      let cand = busy & candMask[k]!;
+      let cand = masked ? busy & candMask[k]! : 0;
+      let p = nbrStart[k]!;
+      const pe = nbrStart[k + 1]!;
       let best = -1;
       let bt = Infinity;
-      while (cand !== 0) {
-        const j = 31 - Math.clz32(cand & -cand);
-        cand &= cand - 1;
+      for (;;) {
+        let j: number;
+        if (masked) {
+          if (cand === 0) break;
+          j = 31 - Math.clz32(cand & -cand);
+          cand &= cand - 1;
+        } else {
+          if (p === pe) break;
+          j = nbr[p++]!;
+          if (span[j] === 0) continue;
+        }
         if (headDue[j]! <= now) {
           const o = off[j]!;
           const mk = mask[j]!;

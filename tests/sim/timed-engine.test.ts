@@ -174,11 +174,18 @@ describe('timed engine, deadlines: the kernel = a plain reference, arrival by ar
    * (without reaching the cap), which must change nothing either.
    */
   const ring = compileGraph(['z0', 'z1', 'z2', 'z3', 'z4', 'z5', 'z6'], [1, 1.2, 1.4, 1.6, 1.8, 2, 2.2], [[0, 1], [1, 2], [2, 3], [3, 4], [4, 5], [5, 6], [6, 0], [0, 3], [2, 2], [5, 5]]);
+  // 40 zones in a ring, each also compatible with the zone 7 ahead, every fifth with itself
+  const wideIds = Array.from({ length: 40 }, (_, k) => `w${k}`);
+  const widePairs: Array<[number, number]> = [];
+  for (let k = 0; k < 40; k++) widePairs.push([k, (k + 1) % 40], [k, (k + 7) % 40]);
+  for (let k = 0; k < 40; k += 5) widePairs.push([k, k]);
+  const wideRing = compileGraph(wideIds, wideIds.map((_, k) => 1 + (k % 4) * 0.25), widePairs);
   const designs = [
     { label: 'two classes, one impatient, deep queues', model: compileGraph(['a', 'b'], [10, 1], [[0, 1]]), patience: [100, 1], cap: 1e6 },
     { label: 'two impatient classes, cap checks on the way', model: compileGraph(['a', 'b'], [10, 1], [[0, 1]]), patience: [1.5, 1], cap: 40 },
     { label: '7-ring with a chord and self-loops, every class impatient', model: ring, patience: [3, 5, 2, 8, 4, 6, 1], cap: 1e6 },
     { label: 'the same ring, some classes patient', model: ring, patience: [0, 5, 0, 8, 4, 0, 1], cap: 1e6 },
+    { label: '40 classes (the scan of candidate lists, past the 32-class mask), some patient', model: wideRing, patience: Array.from({ length: 40 }, (_, k) => (k % 3 === 0 ? 0 : 2 + (k % 5))), cap: 1e6 },
     { label: 'a triangle with patient classes only (no patience draws)', model: compileGraph(['z0', 'z1', 'z2'], [1, 1, 1], [[0, 1], [1, 2], [2, 0]]), patience: [0, 0, 0], cap: 1e6 },
   ];
   for (const { label, model, patience, cap } of designs) {
