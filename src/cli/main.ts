@@ -108,7 +108,12 @@ scenarioFlags(program.command('simulate').description('simulate a matching polic
   .addOption(new Option('--max-sets <n>', 'memory guard of the exact FCFM column, in independent sets (default 1000000)').argParser(Number))
   .option('--timed', 'simulate the Poisson clock explicitly (slower; automatic when classes have patience)')
   .option('--wait-unit <unit>', 'show waits in this unit (default: automatic)')
-  .action((file: string, opts: Record<string, unknown>) => action('simulate', async () => (await import('./commands/simulate.js')).simulateCommand)({ ...opts, file }));
+  .action((file: string, opts: Record<string, unknown>) =>
+    action('simulate', async () => {
+      await (await import('./prestart.js')).prestartSimulation(opts); // workers boot while the command loads
+      return (await import('./commands/simulate.js')).simulateCommand;
+    })({ ...opts, file }),
+  );
 
 scoringFlags(scenarioFlags(program.command('sensitivity').description('effect of every single change (exact, or simulated with intervals), with the rules that allow it, flagged and explained'), { csv: true }), 'worker threads of the simulated scoring (default 1); the output does not depend on it')
   .option('--all-pairs', 'try every absent pair (self-pairs included), not only the candidates')

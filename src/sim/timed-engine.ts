@@ -1,5 +1,6 @@
 import { sampleAlias } from './alias.js';
 import { waitingCapError } from './cap.js';
+import { PRIMING_CALLS } from './chain-engine.js';
 import type { Counters } from './counters.js';
 import { flushAreas, newCounters, resetCounters } from './counters.js';
 import { Queues } from './queues.js';
@@ -17,6 +18,8 @@ const BIN_BITS = new Uint32Array(BIN_WORD.buffer);
 
 /** Arrivals per call of the deadline kernel (see TimedEngine.runDeadlines). */
 const LOOP_CHUNK = 1 << 14;
+/** Whether the kernel ran its priming calls in this thread, for at most 32 classes and for more. */
+const primed = [false, false];
 /** Kernel exits (besides −1, a whole chunk done, and k ≥ 0, the ring of class k just filled). */
 const OVER_LIMIT = -2;
 
@@ -131,8 +134,11 @@ export class TimedEngine {
         this.patience[k] = abandonRate[k]! > 0 ? 1 / abandonRate[k]! : 0;
         if (n <= 32) for (let p = nbrStart[k]!; p < nbrStart[k + 1]!; p++) this.candMask[k] |= 1 << nbr[p]!;
       }
-      // run the kernel's code after its loop once (see ChainEngine's constructor)
-      this.deadlineChunk(0);
+      // run the kernel's code after its loop first (see ChainEngine's constructor)
+      if (!primed[n <= 32 ? 0 : 1]) {
+        for (let i = 0; i < PRIMING_CALLS; i++) this.deadlineChunk(0);
+        primed[n <= 32 ? 0 : 1] = true;
+      }
     }
   }
 

@@ -11,9 +11,49 @@
  *
  * `close()` terminates the workers; tasks still pending then reject with PoolClosedError, which is
  * how an interrupted run stops its workers at once.
+ *
+ * A command that knows early that it will want workers (`simulate --jobs 2`, before it has read its
+ * file) may start them with `prestartWorkers`: they boot Node and load their modules on the idle
+ * cores while this thread is still starting, and a pool of the same kind later adopts them and sends
+ * them its WorkerInit as their first message. Until then they do not keep the process alive.
  */
 import { Worker } from 'node:worker_threads';
-import { reviveError, type FromWorker, type ToWorker, type WorkerInit, type WorkerTask } from './protocol.js';
+import { reviveError, type FromWorker, type ToWorker, type WorkerInit, type WorkerKind, type WorkerTask } from './protocol.js';
+
+/** Workers started ahead of their pool (see the header), not yet adopted. */
+const prestarted: Array<{ readonly href: string; readonly kind: WorkerKind; readonly worker: Worker; exited: boolean }> = [];
+
+/**
+ * Starts `count` workers of `kind` now, for a pool created later in this thread (see the header).
+ * Without a compiled worker (running from sources) it does nothing.
+ */
+export function prestartWorkers(kind: WorkerKind, count: number, url: URL | undefined = workerUrl()): void {
+  if (!url) return;
+  for (let i = 0; i < count; i++) {
+    const worker = new Worker(url, { workerData: { kind, deferred: true } });
+    const entry = { href: url.href, kind, worker, exited: false };
+    worker.unref();
+    worker.once('error', () => undefined); // a failure shows when a pool adopts it: it has exited
+    worker.once('exit', () => {
+      entry.exited = true;
+    });
+    prestarted.push(entry);
+  }
+}
+
+/** Prestarted workers still waiting for a pool (for tests). */
+export function pendingPrestarted(): number {
+  return prestarted.filter((p) => !p.exited).length;
+}
+
+/** Takes a prestarted worker of this script and kind, if one is still running. */
+function adoptPrestarted(url: URL, kind: WorkerKind): Worker | undefined {
+  const i = prestarted.findIndex((p) => p.href === url.href && p.kind === kind && !p.exited);
+  if (i < 0) return undefined;
+  const [entry] = prestarted.splice(i, 1);
+  entry!.worker.ref();
+  return entry!.worker;
+}
 
 /** URL of the compiled worker next to this module, or undefined when running from TypeScript sources. */
 export function workerUrl(): URL | undefined {
@@ -72,7 +112,9 @@ export class WorkerPool {
   }
 
   private spawn(): Worker {
-    const w = new Worker(this.url, { workerData: this.init });
+    const early = adoptPrestarted(this.url, this.init.kind);
+    const w = early ?? new Worker(this.url, { workerData: this.init });
+    if (early) w.postMessage({ init: this.init } satisfies ToWorker);
     w.on('message', (m: FromWorker) => {
       const p = this.running.get(m.id);
       if (!p) return;
