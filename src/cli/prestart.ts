@@ -8,12 +8,15 @@ import { availableParallelism } from 'node:os';
 /** Replications when --replications is not given (the default of src/sim/simulate.ts: SIM_DEFAULTS). */
 const DEFAULT_REPLICATIONS = 8;
 
-/** `simulate`: min(--jobs, --replications) workers, the defaults of the command where not given. */
+/**
+ * `simulate`: min(--jobs, --replications) − 1 workers (this thread runs replications too:
+ * src/sim/runner.ts), the defaults of the command where not given.
+ */
 export async function prestartSimulation(opts: { readonly jobs?: unknown; readonly replications?: unknown }): Promise<void> {
   const jobs = opts.jobs === undefined ? availableParallelism() : Number(opts.jobs);
   const replications = opts.replications === undefined ? DEFAULT_REPLICATIONS : Number(opts.replications);
-  const count = Math.min(jobs, replications, 256);
-  if (!Number.isSafeInteger(count) || count < 2) return;
+  const count = Math.min(jobs, replications, 256) - 1;
+  if (!Number.isSafeInteger(count) || count < 1) return;
   const { prestartWorkers } = await import('../workers/pool.js');
   prestartWorkers('simulate', count);
 }

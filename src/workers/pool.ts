@@ -1,7 +1,8 @@
 /**
  * The one pool of worker threads, serving simulation replications and design scoring alike. A pool
  * is set up for one job (WorkerInit: the simulation model and plan, or the scoring spec), starts at
- * most `jobs` workers lazily, hands each task to an idle worker (queueing the rest), and resolves
+ * most `jobs` workers lazily, hands each task to an idle worker (queueing the rest; with `depth` > 1,
+ * up to `depth` tasks wait in a worker's own queue, for callers that keep this thread busy), and resolves
  * every task's promise with its result. Callers put results back in input order themselves, so
  * nothing they compute depends on which worker finishes first.
  *
@@ -77,7 +78,8 @@ interface Pending {
 
 export class WorkerPool {
   private readonly workers: Worker[] = [];
-  private readonly idle: Worker[] = [];
+  /** Tasks posted to each worker and not answered yet. */
+  private readonly inFlight = new Map<Worker, number>();
   private readonly queue: Array<Pending & { readonly id: number }> = [];
   private readonly running = new Map<number, Pending & { readonly worker: Worker }>();
   private nextId = 0;
@@ -88,6 +90,7 @@ export class WorkerPool {
     private readonly init: WorkerInit,
     readonly jobs: number,
     private readonly url: URL,
+    private readonly depth = 1,
   ) {}
 
   /** Runs one task on a worker; `onProgress` receives the progress the task reports. */
@@ -102,13 +105,30 @@ export class WorkerPool {
 
   private dispatch(): void {
     while (this.queue.length > 0) {
-      const w = this.idle.pop() ?? (this.workers.length < this.jobs ? this.spawn() : undefined);
+      const w = this.pick();
       if (!w) return;
       const p = this.queue.shift()!;
       this.running.set(p.id, { ...p, worker: w });
+      this.inFlight.set(w, (this.inFlight.get(w) ?? 0) + 1);
       const msg: ToWorker = { id: p.id, task: p.task };
       w.postMessage(msg, p.transfer);
     }
+  }
+
+  /** An idle worker, else a new one, else the least loaded one with fewer than `depth` tasks. */
+  private pick(): Worker | undefined {
+    let best: Worker | undefined;
+    let load = Infinity;
+    for (const w of this.workers) {
+      const n = this.inFlight.get(w) ?? 0;
+      if (n < load) {
+        best = w;
+        load = n;
+      }
+    }
+    if (best && load === 0) return best;
+    if (this.workers.length < this.jobs) return this.spawn();
+    return best && load < this.depth ? best : undefined;
   }
 
   private spawn(): Worker {
@@ -123,7 +143,7 @@ export class WorkerPool {
         return;
       }
       this.running.delete(m.id);
-      this.idle.push(w);
+      this.inFlight.set(w, this.inFlight.get(w)! - 1);
       if (m.type === 'error') p.reject(reviveError(m.error));
       else p.resolve(m.result);
       this.dispatch();
@@ -154,17 +174,24 @@ export class WorkerPool {
     this.running.clear();
     this.queue.length = 0;
     const all = this.workers.splice(0);
-    this.idle.length = 0;
+    this.inFlight.clear();
     await Promise.all(all.map((w) => w.terminate()));
   }
+}
+
+export interface PoolOptions {
+  /** Tasks a worker may hold at once (1: only idle workers get tasks). */
+  readonly depth?: number;
+  /** The calling thread works too: `jobs` counts it, so the pool has jobs − 1 workers. */
+  readonly withThisThread?: boolean;
 }
 
 /**
  * A pool for `jobs` parallel tasks, or undefined when the work should run in the calling thread
  * (jobs ≤ 1, or no compiled worker: running from sources). `url` overrides the worker script (tests).
  */
-export function createPool(init: WorkerInit, jobs: number, url: URL | null | undefined = workerUrl()): WorkerPool | undefined {
+export function createPool(init: WorkerInit, jobs: number, url: URL | null | undefined = workerUrl(), options: PoolOptions = {}): WorkerPool | undefined {
   const j = Math.max(1, Math.floor(jobs));
   if (j <= 1 || url === null || url === undefined) return undefined;
-  return new WorkerPool(init, j, url);
+  return new WorkerPool(init, options.withThisThread ? j - 1 : j, url, Math.max(1, Math.floor(options.depth ?? 1)));
 }

@@ -11,7 +11,16 @@ import type { SimModel } from '../sim/sim-model.js';
 
 /** What a worker is set up with once (workerData, or the first message of a prestarted worker). */
 export type WorkerInit =
-  | { readonly kind: 'simulate'; readonly model: SimModel; readonly plan: ReplicationPlan }
+  | {
+      readonly kind: 'simulate';
+      readonly model: SimModel;
+      readonly plan: ReplicationPlan;
+      /**
+       * One flag per replication over a SharedArrayBuffer, when the main thread runs replications
+       * too (runner.ts): a thread runs a replication only after setting its flag from 0 to 1.
+       */
+      readonly claims?: Int32Array;
+    }
   | { readonly kind: 'score'; readonly spec: ScoreSpec };
 
 export type WorkerKind = WorkerInit['kind'];

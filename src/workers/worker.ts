@@ -20,6 +20,8 @@ async function handlerFor(init: WorkerInit): Promise<Handler> {
     const { runReplication } = await import('../sim/replication.js');
     return (msg, progress) => {
       if (msg.task.kind !== 'replication') throw new Error(`a simulation worker got a ${msg.task.kind} task`);
+      // taken by the main thread already: answer null
+      if (init.claims && Atomics.compareExchange(init.claims, msg.task.index, 0, 1) !== 0) return { result: null, transfer: [] };
       const record = runReplication(init.model, init.plan, msg.task.index, msg.task.state, progress);
       return { result: record, transfer: [record.hist.buffer as ArrayBuffer] };
     };

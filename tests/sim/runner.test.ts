@@ -76,7 +76,8 @@ describe('compiled build: worker threads', () => {
     expect(await other.run({ kind: 'score', tasks: [] })).toEqual([]);
     await other.close();
     expect(pool.pendingPrestarted()).toBe(2);
-    const adopted = await collect((sink) => runner.runReplications(sim, timedPlan, 4, 5, { jobs: 2 }, sink));
+    // --jobs 3: this thread and two workers, both prestarted ones
+    const adopted = await collect((sink) => runner.runReplications(sim, timedPlan, 4, 5, { jobs: 3 }, sink));
     expect(pool.pendingPrestarted()).toBe(0);
     expect(adopted).toEqual(inThread);
   });
