@@ -95,7 +95,10 @@ export class TimedEngine {
   private readonly startAge: Float64Array;
   private readonly startExpired: Float64Array;
   private readonly startSpan: Float64Array;
-  /** pairs[k·n + j]: arrivals of k that took a waiting j, since the window started. */
+  /**
+   * Arrivals of k that took a waiting j since the window started: at pairs[k·n + j] for at most 32
+   * classes, else at the position of j in k's candidate list (model.nbr), so linear in the size.
+   */
   private readonly pairs: Float64Array;
   /** Mean patience of each class (0: patient). */
   private readonly patience: Float64Array;
@@ -124,7 +127,7 @@ export class TimedEngine {
     this.startAge = new Float64Array(perClass);
     this.startExpired = new Float64Array(perClass);
     this.startSpan = new Float64Array(perClass);
-    this.pairs = new Float64Array(perClass * perClass);
+    this.pairs = new Float64Array(!this.deadlines ? 0 : n <= 32 ? n * n : model.nbr.length);
     this.patience = new Float64Array(perClass);
     this.candMask = new Int32Array(perClass);
     this.limit = maxWaiting;
@@ -171,7 +174,7 @@ export class TimedEngine {
     for (let k = 0; k < n; k++) {
       let immediate = 0;
       for (let p = nbrStart[k]!; p < nbrStart[k + 1]!; p++) {
-        const x = pairs[k * n + nbr[p]!]!;
+        const x = pairs[n <= 32 ? k * n + nbr[p]! : p]!;
         c.edgeMatches[nbrEdge[p]!] += x;
         c.waitedMatched[nbr[p]!] += x;
         immediate += x;
@@ -374,6 +377,7 @@ export class TimedEngine {
       let p = nbrStart[k]!;
       const pe = nbrStart[k + 1]!;
       let best = -1;
+      let bestAt = 0;
       let bt = Infinity;
       for (;;) {
         let j: number;
@@ -418,6 +422,7 @@ export class TimedEngine {
         if (h < bt) {
           bt = h;
           best = j;
+          bestAt = masked ? k * n + j : p - 1;
         }
       }
       if (best < 0) {
@@ -484,7 +489,7 @@ export class TimedEngine {
         busy &= ~(1 << best);
       }
       waiting--;
-      pairs[k * n + best]++;
+      pairs[bestAt]++;
       const w = now - bt;
       waitSum[best] += w;
       // fastTimeBin(w·Λ) (fast-time-bin.ts) inlined
