@@ -1,12 +1,15 @@
 /**
  * Worker threads started before a command's modules load (src/workers/pool.ts: prestartWorkers), so
  * that they boot on the idle cores while this thread reads its modules and its file. Only where the
- * flags alone say that a pool of two or more workers will run; the command checks the flags itself.
+ * flags alone say that workers will run; the command checks the flags itself.
  */
 import { availableParallelism } from 'node:os';
 
-/** Replications when --replications is not given (the default of src/sim/simulate.ts: SIM_DEFAULTS). */
-const DEFAULT_REPLICATIONS = 8;
+/**
+ * Replications when --replications is not given: SIM_DEFAULTS.replications of src/sim/simulate.ts,
+ * not imported here (that module loads the simulator); tests/cli/prestart.test.ts checks they agree.
+ */
+export const DEFAULT_REPLICATIONS = 8;
 
 /**
  * `simulate`: min(--jobs, --replications) − 1 workers (this thread runs replications too:
