@@ -563,7 +563,8 @@ export class TimedEngine {
   }
 
   private capError(): Error {
-    return waitingCapError(this.maxWaiting, this.counts, this.model.ids, `after ${this.arrivalsDone.toLocaleString('en-US')} arrivals`);
+    const label = `after ${this.arrivalsDone.toLocaleString('en-US')} arrivals`;
+    return waitingCapError(this.maxWaiting, this.counts, this.model.ids, label, this.deadlines ? 16 : 9);
   }
 
   /**
