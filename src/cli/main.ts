@@ -93,7 +93,7 @@ scenarioFlags(program.command('evaluate').description('exact steady state under 
   .option('--wait-unit <unit>', 'show waits in this unit: second, minute, hour, day or week (default: automatic)')
   .option('--score <method>', 'exact | simulation | auto (default): exact where feasible and no patience, else simulated with 95 % intervals')
   .option('--seed <s>', 'seed of the simulation when the figures are simulated (default 1)')
-  .option('--jobs <j>', 'worker threads of the simulation (default 1); the output does not depend on it')
+  .option('--jobs <j>', 'threads of the simulation, this one included (default 1); the output does not depend on it')
   .action((file: string, opts: Record<string, unknown>) => action('evaluate', async () => (await import('./commands/evaluate.js')).evaluateCommand)({ ...opts, file }));
 
 scenarioFlags(program.command('simulate').description('simulate a matching policy: backlog, waits and percentiles, abandonment, with 95 % intervals'))
@@ -103,12 +103,17 @@ scenarioFlags(program.command('simulate').description('simulate a matching polic
   .option('--replications <r>', 'independent replications (default 8)')
   .option('--warmup <w>', 'arrivals discarded first in each replication (default arrivals/10)')
   .option('--seed <s>', 'random seed (default 1); the same seed gives the same output whatever --jobs')
-  .option('--jobs <j>', 'worker threads (default: the number of cores)')
+  .option('--jobs <j>', 'threads that run replications, this one included (default: the number of cores)')
   .option('--max-waiting <n>', 'stop when more items wait at once (default 5000000)')
   .addOption(new Option('--max-sets <n>', 'memory guard of the exact FCFM column, in independent sets (default 1000000)').argParser(Number))
   .option('--timed', 'simulate the Poisson clock explicitly (slower; automatic when classes have patience)')
   .option('--wait-unit <unit>', 'show waits in this unit (default: automatic)')
-  .action((file: string, opts: Record<string, unknown>) => action('simulate', async () => (await import('./commands/simulate.js')).simulateCommand)({ ...opts, file }));
+  .action((file: string, opts: Record<string, unknown>) =>
+    action('simulate', async () => {
+      await (await import('./prestart.js')).prestartSimulation(opts); // workers boot while the command loads
+      return (await import('./commands/simulate.js')).simulateCommand;
+    })({ ...opts, file }),
+  );
 
 scoringFlags(scenarioFlags(program.command('sensitivity').description('effect of every single change (exact, or simulated with intervals), with the rules that allow it, flagged and explained'), { csv: true }), 'worker threads of the simulated scoring (default 1); the output does not depend on it')
   .option('--all-pairs', 'try every absent pair (self-pairs included), not only the candidates')

@@ -8,14 +8,19 @@ import { TIME_BINS, TIME_PER_OCTAVE, timeBinRange } from './wait-bins.js';
  * of m is narrower than a bin (2^(1/P) − 1 > 1/256 for P <= 177), one comparison finishes. Equal
  * to timeBin except where rounding puts x on the other side of a bin edge (within an ulp of one).
  */
-const P = TIME_PER_OCTAVE;
-const E0 = Math.round(Math.log2(timeBinRange(1)[0])); // the lowest exponent (edge of bin 1)
-const THRESHOLD = Float64Array.from({ length: P + 1 }, (_, j) => 2 ** (j / P));
-const START = Int32Array.from({ length: 256 }, (_, t) => {
+/** The tables of fastTimeBin, exported for kernels that inline it (timed-engine.ts). */
+export const BIN_P = TIME_PER_OCTAVE;
+const P = BIN_P;
+export const BIN_E0 = Math.round(Math.log2(timeBinRange(1)[0])); // the lowest exponent (edge of bin 1)
+export const BIN_THRESHOLD = Float64Array.from({ length: P + 1 }, (_, j) => 2 ** (j / P));
+export const BIN_START = Int32Array.from({ length: 256 }, (_, t) => {
   let j = 0;
-  while (THRESHOLD[j + 1]! <= 1 + t / 256) j++;
+  while (BIN_THRESHOLD[j + 1]! <= 1 + t / 256) j++;
   return j;
 });
+const THRESHOLD = BIN_THRESHOLD;
+const START = BIN_START;
+const E0 = BIN_E0;
 const word = new Float64Array(1);
 const bits = new Uint32Array(word.buffer);
 

@@ -1,5 +1,5 @@
 import { gammaCdf, GAMMA_EXACT_SHAPE } from './special.js';
-import { arrivalBinValue, timeBinRange } from './wait-bins.js';
+import { arrivalBinValue, sumBins, timeBinRange } from './wait-bins.js';
 
 /**
  * Wait percentiles from a histogram (one class, or several summed). The p-quantile is the smallest
@@ -20,16 +20,15 @@ export function waitQuantile(
   totalRate: number,
   p: number,
 ): number {
-  let total = 0;
-  for (let b = 0; b < bins; b++) total += hist[start + b]!;
+  const total = sumBins(hist, start, start + bins);
   if (!(total > 0)) return NaN;
   const target = p * total;
   if (hist[start]! >= target) return 0;
   return kind === 'arrivals' ? arrivalsQuantile(hist, start, bins, target) / totalRate : timeQuantile(hist, start, bins, target) / totalRate;
 }
 
-/** Quantile of the scaled wait x = Λw for an arrivals histogram. */
-function arrivalsQuantile(hist: Float64Array, start: number, bins: number, target: number): number {
+/** The non-empty bins b ≥ 1 of an arrivals histogram: their representative K and their counts. */
+function nonEmptyBins(hist: Float64Array, start: number, bins: number): [number[], number[]] {
   const ks: number[] = [];
   const ws: number[] = [];
   for (let b = 1; b < bins; b++) {
@@ -39,6 +38,12 @@ function arrivalsQuantile(hist: Float64Array, start: number, bins: number, targe
       ws.push(h);
     }
   }
+  return [ks, ws];
+}
+
+/** Quantile of the scaled wait x = Λw for an arrivals histogram. */
+function arrivalsQuantile(hist: Float64Array, start: number, bins: number, target: number): number {
+  const [ks, ws] = nonEmptyBins(hist, start, bins);
   const zero = hist[start]!;
   // before[i] = Σ_{j<i} ws[j]
   const before = new Float64Array(ks.length + 1);

@@ -1,7 +1,7 @@
 /**
  * Per-class ring buffers of waiting items inside one Float64Array (a value per item: its arrival
  * index or arrival time), with an optional parallel Uint8Array of "gone" flags for the lazy deletion
- * of abandoned items. Class k owns the region buf[off[k] .. off[k] + cap[k]) (cap a power of two);
+ * of abandoned items or a parallel Float64Array of a second value per item (`due`). Class k owns the region buf[off[k] .. off[k] + cap[k]) (cap a power of two);
  * its items sit at off[k] + ((head[k] + i) & mask[k]) for i < span[k], oldest first.
  *
  * Growing a class appends a region twice as large at the end of the buffer and copies only that
@@ -12,6 +12,8 @@
 export class Queues {
   buf: Float64Array;
   gone: Uint8Array | undefined;
+  /** A second value per item (the deadline engine's: when the item gives up), when asked for. */
+  due: Float64Array | undefined;
   readonly off: Int32Array;
   readonly cap: Int32Array;
   readonly mask: Int32Array;
@@ -20,7 +22,7 @@ export class Queues {
   readonly span: Int32Array;
   private used: number;
 
-  constructor(readonly n: number, withGone: boolean, initialCap = 64) {
+  constructor(readonly n: number, withGone: boolean, initialCap = 64, withDue = false) {
     this.off = new Int32Array(n);
     this.cap = new Int32Array(n).fill(initialCap);
     this.mask = new Int32Array(n).fill(initialCap - 1);
@@ -30,6 +32,7 @@ export class Queues {
     this.used = n * initialCap;
     this.buf = new Float64Array(this.used * 2);
     this.gone = withGone ? new Uint8Array(this.used * 2) : undefined;
+    this.due = withDue ? new Float64Array(this.used * 2) : undefined;
   }
 
   /** Doubles the ring of class k (its items keep their order and move to head 0). */
@@ -39,7 +42,7 @@ export class Queues {
     if (need > 0x40000000) throw new RangeError('a queue cannot hold more than 2^30 items');
     if (this.used + need > this.buf.length) this.compact(need);
     const dst = this.used;
-    this.copyRing(k, this.buf, this.gone, dst);
+    this.copyRing(k, this.buf, this.gone, this.due, dst);
     this.off[k] = dst;
     this.cap[k] = need;
     this.mask[k] = need - 1;
@@ -57,8 +60,8 @@ export class Queues {
     return out;
   }
 
-  /** Copies ring k into `buf`/`gone` at `dst`, in order from position 0. */
-  private copyRing(k: number, buf: Float64Array, gone: Uint8Array | undefined, dst: number): void {
+  /** Copies ring k into `buf`/`gone`/`due` at `dst`, in order from position 0. */
+  private copyRing(k: number, buf: Float64Array, gone: Uint8Array | undefined, due: Float64Array | undefined, dst: number): void {
     const off = this.off[k]!;
     const mask = this.mask[k]!;
     const head = this.head[k]!;
@@ -67,6 +70,7 @@ export class Queues {
       const p = off + ((head + i) & mask);
       buf[dst + i] = this.buf[p]!;
       if (gone) gone[dst + i] = this.gone![p]!;
+      if (due) due[dst + i] = this.due![p]!;
     }
   }
 
@@ -77,15 +81,17 @@ export class Queues {
     const size = Math.max(this.buf.length * 2, (live + extra) * 2);
     const buf = new Float64Array(size);
     const gone = this.gone ? new Uint8Array(size) : undefined;
+    const due = this.due ? new Float64Array(size) : undefined;
     let at = 0;
     for (let k = 0; k < this.n; k++) {
-      this.copyRing(k, buf, gone, at);
+      this.copyRing(k, buf, gone, due, at);
       this.off[k] = at;
       this.head[k] = 0;
       at += this.cap[k]!;
     }
     this.buf = buf;
     this.gone = gone;
+    this.due = due;
     this.used = at;
   }
 }

@@ -4,6 +4,7 @@ import { waitQuantile } from './percentiles.js';
 import { QUANTILE_LEVELS, type ReplicationPlan, type ReplicationRecord } from './record.js';
 import type { SimModel } from './sim-model.js';
 import { TimedEngine } from './timed-engine.js';
+import { addBins } from './wait-bins.js';
 
 /** Arrivals per chunk between progress reports. */
 export const CHUNK = 1 << 21;
@@ -81,7 +82,7 @@ function summarise(
     abandonedAll += c.abandoned[k]!;
     if (noQuantiles) continue;
     c.hist[k * bins] = c.immediate[k]!; // bin 0: matched on arrival
-    for (let b = 0; b < bins; b++) totalHist[b] += c.hist[k * bins + b]!;
+    addBins(totalHist, c.hist, k * bins, bins);
     QUANTILE_LEVELS.forEach((p, i) => {
       waitQuantiles[k * QUANTILE_LEVELS.length + i] = waitQuantile(c.kind, c.hist, k * bins, bins, model.totalRate, p);
     });

@@ -5,7 +5,7 @@ import { runReplication } from './replication.js';
 import type { SimModel } from './sim-model.js';
 
 export interface RunnerOptions {
-  /** Worker threads to use at most (1 = run in this thread). */
+  /** Threads to use at most, this one included (1 = this thread only; 2 = this one and a worker). */
   readonly jobs: number;
   /**
    * Worker script. Default: the one worker pool's script next to the compiled modules
@@ -26,9 +26,13 @@ export function defaultWorkerUrl(): URL | null {
 
 /**
  * Runs replications 0..count−1, each from its own stream (seed, index), and hands every record to
- * `sink` as it completes (in any order). At most `jobs` worker threads of the worker pool run at
- * once; each receives the model once and then one replication at a time. Returns how many
- * replications finished (fewer than `count` only when `signal` stopped the run).
+ * `sink` as it completes (in any order). With `jobs` ≥ 2 this thread and jobs − 1 worker threads
+ * of the worker pool share them: the workers receive the model once and the replications in index
+ * order (all posted at once), this thread takes them from the last one down, and a thread runs a replication only
+ * after claiming it in a shared array of flags (a worker answers null for one this thread took).
+ * No thread waits for a message to start its next replication, and this thread's own start-up
+ * work needs no worker of its own. Returns how many replications finished (fewer than `count`
+ * only when `signal` stopped the run).
  */
 export async function runReplications(
   model: SimModel,
@@ -42,7 +46,8 @@ export async function runReplications(
   const url = options.workerUrl === undefined ? defaultWorkerUrl() : options.workerUrl;
   const jobs = Math.max(1, Math.min(Math.floor(options.jobs), count));
   const signal = options.signal;
-  const pool = createPool({ kind: 'simulate', model, plan }, jobs, url);
+  const claims = new Int32Array(new SharedArrayBuffer(4 * count));
+  const pool = createPool({ kind: 'simulate', model, plan, claims }, jobs, url, { withThisThread: true, depth: count });
   if (!pool) {
     let done = 0;
     for (let i = 0; i < count && !signal?.aborted; i++) {
@@ -55,15 +60,25 @@ export async function runReplications(
   let done = 0;
   const stop = (): void => void pool.close();
   signal?.addEventListener('abort', stop, { once: true });
+  let failed = false;
   try {
-    await Promise.all(
+    const workers = Promise.all(
       states.map((state, index) =>
-        pool.run<ReplicationRecord>({ kind: 'replication', index, state }, options.onProgress).then((record) => {
+        pool.run<ReplicationRecord | null>({ kind: 'replication', index, state }, options.onProgress).then((record) => {
+          if (record === null) return; // this thread ran it
           sink(record);
           done++;
         }),
       ),
     );
+    workers.catch(() => (failed = true)); // seen between this thread's replications; rethrown below
+    for (let i = count - 1; i >= 0 && !failed && !signal?.aborted; i--) {
+      if (Atomics.compareExchange(claims, i, 0, 1) !== 0) continue;
+      sink(runReplication(model, plan, i, states[i]!, options.onProgress));
+      done++;
+      await new Promise<void>((r) => setImmediate(r)); // worker messages, timers, signals
+    }
+    await workers;
   } catch (e) {
     if (!signal?.aborted) throw e;
   } finally {

@@ -1,6 +1,7 @@
 import { waitQuantile } from './percentiles.js';
 import { QUANTILE_LEVELS, type ReplicationRecord } from './record.js';
 import { t975 } from './student-t.js';
+import { addBins } from './wait-bins.js';
 
 /** A mean across replications with its 95 % Student t interval (null with fewer than 2 values). */
 export interface Estimate {
@@ -110,7 +111,7 @@ export class ReplicationPool {
     });
     const pooled = this.pooled ?? new Float64Array(0);
     const totalHist = new Float64Array(this.bins);
-    for (let k = 0; k < n; k++) for (let b = 0; b < this.bins; b++) totalHist[b] += pooled[k * this.bins + b]!;
+    for (let k = 0; k < n; k++) addBins(totalHist, pooled, k * this.bins, this.bins);
     const waitOf = (slot: number, mean: Estimate, hist: Float64Array, start: number): WaitEstimate => {
       const q = QUANTILE_LEVELS.map((p) => waitQuantile(this.kind, hist, start, this.bins, this.totalRate, p));
       const qci = QUANTILE_LEVELS.map((_, i) => estimate(recs.map((r) => r.waitQuantiles[slot * L + i]!)).ci95);

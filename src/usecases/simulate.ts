@@ -126,7 +126,6 @@ export async function simulateUseCase(ctx: ScenarioContext, input: SimulateInput
   const model = ctx.model;
   const patience = ctx.scenario.classes.map((c) => c.patience ?? Infinity);
   const impatient = patience.some((p) => Number.isFinite(p));
-  const stability = stabilityOf(ctx, impatient);
   const options: SimulationOptions = {
     policy: input.policy,
     ...(input.ranking ? { priority: input.ranking } : {}),
@@ -141,11 +140,13 @@ export async function simulateUseCase(ctx: ScenarioContext, input: SimulateInput
     ...(input.onProgress ? { onProgress: input.onProgress } : {}),
     ...(input.signal ? { signal: input.signal } : {}),
   };
-  // the replications start first: on worker threads (--jobs 2 and more), the exact FCFM column is
-  // computed in this thread while they run instead of before them
+  // the replications start first: on worker threads (--jobs 2 and more), the stability verdict and
+  // the exact FCFM column are computed in this thread while they run instead of before them
   const running = simulate(model, options);
+  let stability: SimulateRecord['stability'];
   let exact: ReturnType<typeof exactOf>;
   try {
+    stability = stabilityOf(ctx, impatient);
     exact = exactOf(ctx, input, impatient, stability.stable);
   } catch (e) {
     await running.catch(() => undefined);

@@ -1,7 +1,8 @@
 /**
  * The one pool of worker threads, serving simulation replications and design scoring alike. A pool
  * is set up for one job (WorkerInit: the simulation model and plan, or the scoring spec), starts at
- * most `jobs` workers lazily, hands each task to an idle worker (queueing the rest), and resolves
+ * most `jobs` workers lazily, hands each task to an idle worker (queueing the rest; with `depth` > 1,
+ * up to `depth` tasks wait in a worker's own queue, for callers that keep this thread busy), and resolves
  * every task's promise with its result. Callers put results back in input order themselves, so
  * nothing they compute depends on which worker finishes first.
  *
@@ -11,9 +12,49 @@
  *
  * `close()` terminates the workers; tasks still pending then reject with PoolClosedError, which is
  * how an interrupted run stops its workers at once.
+ *
+ * A command that knows early that it will want workers (`simulate --jobs 2`, before it has read its
+ * file) may start them with `prestartWorkers`: they boot Node and load their modules on the idle
+ * cores while this thread is still starting, and a pool of the same kind later adopts them and sends
+ * them its WorkerInit as their first message. Until then they do not keep the process alive.
  */
 import { Worker } from 'node:worker_threads';
-import { reviveError, type FromWorker, type ToWorker, type WorkerInit, type WorkerTask } from './protocol.js';
+import { reviveError, type FromWorker, type ToWorker, type WorkerInit, type WorkerKind, type WorkerTask } from './protocol.js';
+
+/** Workers started ahead of their pool (see the header), not yet adopted. */
+const prestarted: Array<{ readonly href: string; readonly kind: WorkerKind; readonly worker: Worker; exited: boolean }> = [];
+
+/**
+ * Starts `count` workers of `kind` now, for a pool created later in this thread (see the header).
+ * Without a compiled worker (running from sources) it does nothing.
+ */
+export function prestartWorkers(kind: WorkerKind, count: number, url: URL | undefined = workerUrl()): void {
+  if (!url) return;
+  for (let i = 0; i < count; i++) {
+    const worker = new Worker(url, { workerData: { kind, deferred: true } });
+    const entry = { href: url.href, kind, worker, exited: false };
+    worker.unref();
+    worker.once('error', () => undefined); // a failure shows when a pool adopts it: it has exited
+    worker.once('exit', () => {
+      entry.exited = true;
+    });
+    prestarted.push(entry);
+  }
+}
+
+/** Prestarted workers still waiting for a pool (for tests). */
+export function pendingPrestarted(): number {
+  return prestarted.filter((p) => !p.exited).length;
+}
+
+/** Takes a prestarted worker of this script and kind, if one is still running. */
+function adoptPrestarted(url: URL, kind: WorkerKind): Worker | undefined {
+  const i = prestarted.findIndex((p) => p.href === url.href && p.kind === kind && !p.exited);
+  if (i < 0) return undefined;
+  const [entry] = prestarted.splice(i, 1);
+  entry!.worker.ref();
+  return entry!.worker;
+}
 
 /** URL of the compiled worker next to this module, or undefined when running from TypeScript sources. */
 export function workerUrl(): URL | undefined {
@@ -37,7 +78,8 @@ interface Pending {
 
 export class WorkerPool {
   private readonly workers: Worker[] = [];
-  private readonly idle: Worker[] = [];
+  /** Tasks posted to each worker and not answered yet. */
+  private readonly inFlight = new Map<Worker, number>();
   private readonly queue: Array<Pending & { readonly id: number }> = [];
   private readonly running = new Map<number, Pending & { readonly worker: Worker }>();
   private nextId = 0;
@@ -48,6 +90,7 @@ export class WorkerPool {
     private readonly init: WorkerInit,
     readonly jobs: number,
     private readonly url: URL,
+    private readonly depth = 1,
   ) {}
 
   /** Runs one task on a worker; `onProgress` receives the progress the task reports. */
@@ -62,17 +105,36 @@ export class WorkerPool {
 
   private dispatch(): void {
     while (this.queue.length > 0) {
-      const w = this.idle.pop() ?? (this.workers.length < this.jobs ? this.spawn() : undefined);
+      const w = this.pick();
       if (!w) return;
       const p = this.queue.shift()!;
       this.running.set(p.id, { ...p, worker: w });
+      this.inFlight.set(w, (this.inFlight.get(w) ?? 0) + 1);
       const msg: ToWorker = { id: p.id, task: p.task };
       w.postMessage(msg, p.transfer);
     }
   }
 
+  /** An idle worker, else a new one, else the least loaded one with fewer than `depth` tasks. */
+  private pick(): Worker | undefined {
+    let best: Worker | undefined;
+    let load = Infinity;
+    for (const w of this.workers) {
+      const n = this.inFlight.get(w) ?? 0;
+      if (n < load) {
+        best = w;
+        load = n;
+      }
+    }
+    if (best && load === 0) return best;
+    if (this.workers.length < this.jobs) return this.spawn();
+    return best && load < this.depth ? best : undefined;
+  }
+
   private spawn(): Worker {
-    const w = new Worker(this.url, { workerData: this.init });
+    const early = adoptPrestarted(this.url, this.init.kind);
+    const w = early ?? new Worker(this.url, { workerData: this.init });
+    if (early) w.postMessage({ init: this.init } satisfies ToWorker);
     w.on('message', (m: FromWorker) => {
       const p = this.running.get(m.id);
       if (!p) return;
@@ -81,7 +143,7 @@ export class WorkerPool {
         return;
       }
       this.running.delete(m.id);
-      this.idle.push(w);
+      this.inFlight.set(w, this.inFlight.get(w)! - 1);
       if (m.type === 'error') p.reject(reviveError(m.error));
       else p.resolve(m.result);
       this.dispatch();
@@ -112,17 +174,24 @@ export class WorkerPool {
     this.running.clear();
     this.queue.length = 0;
     const all = this.workers.splice(0);
-    this.idle.length = 0;
+    this.inFlight.clear();
     await Promise.all(all.map((w) => w.terminate()));
   }
+}
+
+export interface PoolOptions {
+  /** Tasks a worker may hold at once (1: only idle workers get tasks). */
+  readonly depth?: number;
+  /** The calling thread works too: `jobs` counts it, so the pool has jobs − 1 workers. */
+  readonly withThisThread?: boolean;
 }
 
 /**
  * A pool for `jobs` parallel tasks, or undefined when the work should run in the calling thread
  * (jobs ≤ 1, or no compiled worker: running from sources). `url` overrides the worker script (tests).
  */
-export function createPool(init: WorkerInit, jobs: number, url: URL | null | undefined = workerUrl()): WorkerPool | undefined {
+export function createPool(init: WorkerInit, jobs: number, url: URL | null | undefined = workerUrl(), options: PoolOptions = {}): WorkerPool | undefined {
   const j = Math.max(1, Math.floor(jobs));
   if (j <= 1 || url === null || url === undefined) return undefined;
-  return new WorkerPool(init, j, url);
+  return new WorkerPool(init, options.withThisThread ? j - 1 : j, url, Math.max(1, Math.floor(options.depth ?? 1)));
 }

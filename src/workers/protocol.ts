@@ -9,20 +9,35 @@ import type { ScoreTask } from '../design/scoring/score-task.js';
 import type { ReplicationPlan } from '../sim/record.js';
 import type { SimModel } from '../sim/sim-model.js';
 
-/** What a worker is set up with once (workerData). */
+/** What a worker is set up with once (workerData, or the first message of a prestarted worker). */
 export type WorkerInit =
-  | { readonly kind: 'simulate'; readonly model: SimModel; readonly plan: ReplicationPlan }
+  | {
+      readonly kind: 'simulate';
+      readonly model: SimModel;
+      readonly plan: ReplicationPlan;
+      /**
+       * One flag per replication over a SharedArrayBuffer, when the main thread runs replications
+       * too (runner.ts): a thread runs a replication only after setting its flag from 0 to 1.
+       */
+      readonly claims?: Int32Array;
+    }
   | { readonly kind: 'score'; readonly spec: ScoreSpec };
+
+export type WorkerKind = WorkerInit['kind'];
+
+/** The workerData of a worker started before its pool (pool.ts: prestartWorkers). */
+export interface DeferredInit {
+  readonly kind: WorkerKind;
+  readonly deferred: true;
+}
 
 /** One unit of work. */
 export type WorkerTask =
   | { readonly kind: 'replication'; readonly index: number; readonly state: Uint32Array }
   | { readonly kind: 'score'; readonly tasks: readonly ScoreTask[] };
 
-export interface ToWorker {
-  readonly id: number;
-  readonly task: WorkerTask;
-}
+/** A task, or (first message of a prestarted worker only) its WorkerInit. */
+export type ToWorker = { readonly id: number; readonly task: WorkerTask } | { readonly init: WorkerInit };
 
 export type FromWorker =
   | { readonly id: number; readonly type: 'progress'; readonly amount: number }

@@ -4,18 +4,24 @@
  * progress, a result or a serialised error. Each kind loads only the modules it needs.
  */
 import { parentPort, workerData } from 'node:worker_threads';
-import { serialiseError, type FromWorker, type ToWorker, type WorkerInit } from './protocol.js';
+import { serialiseError, type DeferredInit, type FromWorker, type ToWorker, type WorkerInit, type WorkerKind } from './protocol.js';
 
-const init = workerData as WorkerInit;
+const data = workerData as WorkerInit | DeferredInit;
 const port = parentPort!;
 
-type Handler = (msg: ToWorker, progress: (amount: number) => void) => { result: unknown; transfer: ArrayBuffer[] };
+type Task = Extract<ToWorker, { readonly task: unknown }>;
+type Handler = (msg: Task, progress: (amount: number) => void) => { result: unknown; transfer: ArrayBuffer[] };
+
+/** The modules of a kind: loaded at once, also by a prestarted worker that has no init yet. */
+const modules = (kind: WorkerKind) => (kind === 'simulate' ? import('../sim/replication.js') : import('../design/scoring/score-task.js'));
 
 async function handlerFor(init: WorkerInit): Promise<Handler> {
   if (init.kind === 'simulate') {
     const { runReplication } = await import('../sim/replication.js');
     return (msg, progress) => {
       if (msg.task.kind !== 'replication') throw new Error(`a simulation worker got a ${msg.task.kind} task`);
+      // taken by the main thread already: answer null
+      if (init.claims && Atomics.compareExchange(init.claims, msg.task.index, 0, 1) !== 0) return { result: null, transfer: [] };
       const record = runReplication(init.model, init.plan, msg.task.index, msg.task.state, progress);
       return { result: record, transfer: [record.hist.buffer as ArrayBuffer] };
     };
@@ -27,8 +33,17 @@ async function handlerFor(init: WorkerInit): Promise<Handler> {
   };
 }
 
-const ready = handlerFor(init);
+// a prestarted worker loads its modules now and gets its init as its first message
+let receiveInit: (init: WorkerInit) => void = () => undefined;
+const ready: Promise<Handler> =
+  'deferred' in data
+    ? (void modules(data.kind).catch(() => undefined), new Promise<WorkerInit>((resolve) => (receiveInit = resolve)).then(handlerFor))
+    : handlerFor(data);
 port.on('message', (msg: ToWorker) => {
+  if ('init' in msg) {
+    receiveInit(msg.init);
+    return;
+  }
   void ready.then((handle) => {
     try {
       const { result, transfer } = handle(msg, (amount) => port.postMessage({ id: msg.id, type: 'progress', amount } satisfies FromWorker));

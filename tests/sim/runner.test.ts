@@ -62,6 +62,33 @@ describe('compiled build: worker threads', () => {
     expect(progress).toBe(5 * (plan.arrivals + plan.warmup));
   });
 
+  it('workers started before their pool are adopted by it and give the records of this thread', async () => {
+    const runner = await load<typeof import('../../src/sim/runner.js')>('sim/runner.js');
+    const pool = await load<typeof import('../../src/workers/pool.js')>('workers/pool.js');
+    const built = await load<typeof import('../../src/sim/sim-model.js')>('sim/sim-model.js');
+    const sim = built.buildSimModel(model, { patience: [0, 3, 0, 1.5] });
+    const timedPlan = { ...plan, timed: true };
+    const inThread = await collect((sink) => runner.runReplications(sim, timedPlan, 4, 5, { jobs: 1 }, sink));
+    pool.prestartWorkers('simulate', 2);
+    expect(pool.pendingPrestarted()).toBe(2);
+    // a pool of the other kind does not take them
+    const other = pool.createPool({ kind: 'score', spec: {} as never }, 2)!;
+    expect(await other.run({ kind: 'score', tasks: [] })).toEqual([]);
+    await other.close();
+    expect(pool.pendingPrestarted()).toBe(2);
+    // --jobs 3: this thread and two workers, both prestarted ones
+    const adopted = await collect((sink) => runner.runReplications(sim, timedPlan, 4, 5, { jobs: 3 }, sink));
+    expect(pool.pendingPrestarted()).toBe(0);
+    expect(adopted).toEqual(inThread);
+  });
+
+  it('an unused prestarted worker does not keep the process alive', () => {
+    const poolUrl = pathToFileURL(join(out, 'workers', 'pool.js')).href;
+    const r = spawnSync(process.execPath, ['--input-type=module', '-e', `const m = await import(${JSON.stringify(poolUrl)}); m.prestartWorkers('simulate', 1);`], { encoding: 'utf8', timeout: 20_000 });
+    expect(r.error).toBeUndefined(); // no timeout
+    expect(r.status, r.stderr).toBe(0);
+  });
+
   it('with jobs ≥ 2 the work really goes to the worker script (a missing script fails)', async () => {
     const runner = await load<typeof import('../../src/sim/runner.js')>('sim/runner.js');
     const built = await load<typeof import('../../src/sim/sim-model.js')>('sim/sim-model.js');
