@@ -37,6 +37,7 @@ export const A = (() => {
     buildS: take(4), // trie build state: next set to expand, sets so far
     buildSize: take(4),
     moment: take(4), // 1 = the prefix walk also fills Ψ1 (in the tail slot)
+    visits: take(8), // i32 (8 bytes kept for alignment): sets the walk over a shared trie has reached, ∅ not included
     all: take(8), // i64: mask of all classes
     sat: take(8), // i64: a saturated set found by the prefix walk
     tol: take(8), // f64
@@ -50,6 +51,8 @@ export const A = (() => {
     // per depth of the walk
     idx: take(4 * MAX_D + 4), // i32: trie index of the set on the stack at depth d
     elem: take(4 * MAX_D + 4), // i32: class added at depth d
+    erate: take(8 * MAX_D), // f64: λ of the class added at depth d (the walk over a shared trie)
+    sums: take(16), // f64 × 2: Σ Ψ and Σ Ψ1 of the walk over a shared trie
     r: take(8 * MAX_D), // f64: r(A_d)
     todo: take(8 * MAX_D), // i64: children still to visit
     smask: take(8 * MAX_D), // i64: A_d
@@ -86,8 +89,12 @@ const MAX_PAGES = 65536; // 4 GiB, the limit of 32-bit WebAssembly memories
 export const POOL_BYTES = 4 << 20;
 let pool: { memory: WebAssembly.Memory; generation: number } | undefined;
 
-/** Lays out and fills the memory of one component (graph, header; the arrays are left as they are). */
-export function kernelMemory(g: MaskGraph, count: number): KernelMemory {
+/**
+ * Lays out and fills the memory of one component (graph, header; the arrays are left as they are).
+ * `own`: a memory of its own even when the pool would hold it (a trie kept across evaluations,
+ * shared-trie.ts).
+ */
+export function kernelMemory(g: MaskGraph, count: number, own = false): KernelMemory {
   const n = g.n;
   if (n > MAX_N) throw new RangeError(`kernels hold at most ${MAX_N} classes`);
   const mu = A.end;
@@ -101,7 +108,7 @@ export function kernelMemory(g: MaskGraph, count: number): KernelMemory {
   }
   let memory: WebAssembly.Memory;
   let current: () => boolean;
-  if (end <= POOL_BYTES) {
+  if (end <= POOL_BYTES && !own) {
     pool ??= { memory: new WebAssembly.Memory({ initial: POOL_BYTES / PAGE }), generation: 0 };
     const p = pool;
     const generation = ++p.generation;
