@@ -21,7 +21,6 @@
  * to it (undefined), as it does designs that do not contain the base.
  */
 import type { CompiledModel } from '../model/compile.js';
-import { components } from '../model/components.js';
 import { scaledModel } from '../model/rate-scale.js';
 import { SaturatedSet } from './component.js';
 import { countIndependentSets } from './count.js';
@@ -83,7 +82,7 @@ export function backlogOverShared(t: SharedTrie, model: CompiledModel, options: 
   const n = t.n;
   if (model.n !== n || t.count > (options.maxSets ?? DEFAULT_MAX_SETS)) return undefined;
   for (let k = 0; k < n; k++) if (model.rates[k] !== t.rates[k]) return undefined;
-  if (components(model).members.length !== 1) return undefined;
+  if (!connected(model)) return undefined;
   const { memory: m, run } = t.trie.kernel;
   const { i32, f64 } = m;
   // the design's masks (as maskGraph makes them), checked to contain the base's
@@ -133,4 +132,26 @@ export function backlogOverShared(t: SharedTrie, model: CompiledModel, options: 
   const z = f64[A.sums >> 3]!;
   const m1 = f64[(A.sums >> 3) + 1]!;
   return { independentSets: i32[A.visits >> 2]! + 1, backlogTotal: m1 / z, emptyProbability: 1 / z };
+}
+
+/** True when the model's classes form one connected component (a depth-first walk; at most 64 classes). */
+function connected(model: CompiledModel): boolean {
+  const n = model.n;
+  const stack = new Int32Array(n);
+  const seen = new Uint8Array(n);
+  let top = 0;
+  let reached = 1;
+  stack[top++] = 0;
+  seen[0] = 1;
+  while (top > 0) {
+    const v = stack[--top]!;
+    for (let p = model.adjStart[v]!; p < model.adjStart[v + 1]!; p++) {
+      const w = model.adj[p]!;
+      if (seen[w]) continue;
+      seen[w] = 1;
+      reached++;
+      stack[top++] = w;
+    }
+  }
+  return reached === n;
 }
