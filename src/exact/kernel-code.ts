@@ -253,14 +253,14 @@ function prefixKernel(): Fn {
  * N(A) carried per depth in nmask (the same mask, so the same sum, as the trie build's). Every other
  * step, and the order of the sets, is prefix's on the design's own trie; the indices of A ∖ x, Ψ and
  * Ψ1 share one loop over the members (each sum takes its terms in prefix's order). Each set reached
- * gets its bit in the bitmap held in the μ slot (unused here; bit 0, ∅, set by the caller) and is
- * counted in `visits`. Returns -1 as prefix does.
+ * gets its μ in the μ slot (for a tail walk after it) and its bit in the bitmap at the header's
+ * `bitmap` (bit 0, ∅, set by the caller), and is counted in `visits`. Returns -1 as prefix does.
  */
 function overKernel(): Fn {
   const f = new Fn('over', { steps: 'i32' }, 'i32').locals({
     ...WALK_LOCALS,
-    psi1: 'i32', visits: 'i32', at: 'i32',
-    sum: 'f64', den: 'f64', ps: 'f64', m1: 'f64', re: 'f64', tol: 'f64', w: 'f64', x: 'f64',
+    psi1: 'i32', visits: 'i32', at: 'i32', bitmap: 'i32',
+    sum: 'f64', den: 'f64', ps: 'f64', m1: 'f64', re: 'f64', tol: 'f64', w: 'f64', x: 'f64', mus: 'f64',
     nm: 'i64', bm: 'i64',
   });
   const { get, set } = f;
@@ -270,6 +270,7 @@ function overKernel(): Fn {
     ...loadWalk(f),
     set('psi1', hdr(A.tail)),
     set('visits', hdr(A.visits)),
+    set('bitmap', hdr(A.bitmap)),
     set('tol', f64.load(i32.const(A.tol))),
     block('exit',
       loop('walk',
@@ -317,7 +318,9 @@ function overKernel(): Fn {
         st64(A.todo, get('e'), i64.and(i64.load(i32.add(get('node'), i32.mul(get('s'), i32.const(12))), 4), i64.xor(get('bm'), i64.const(-1)))),
         set('nm', i64.or(ld64(A.nmask, get('d')), ld64(A.nb, get('c')))),
         st64(A.nmask, get('e'), get('nm')),
-        set('den', f64.sub(maskRate(get('nm')), get('re'))),
+        set('mus', maskRate(get('nm'))),
+        f64.store(el8(get('mu'), get('s')), get('mus')),
+        set('den', f64.sub(get('mus'), get('re'))),
         when(i32.eqz(f64.gt(get('den'), get('tol'))), [
           i64.store(i32.const(A.sat), ld64(A.smask, get('e'))),
           i32.store(i32.const(A.visits), get('visits')),
@@ -327,7 +330,7 @@ function overKernel(): Fn {
         f64.store(el8(get('psi'), get('s')), get('ps')),
         f64.store(el8(get('psi1'), get('s')), f64.div(f64.add(get('m1'), f64.mul(get('re'), get('ps'))), get('den'))),
         // bit s of the bitmap
-        set('at', i32.add(get('mu'), shl(i32.shr_u(get('s'), i32.const(5)), 2))),
+        set('at', i32.add(get('bitmap'), shl(i32.shr_u(get('s'), i32.const(5)), 2))),
         i32.store(get('at'), i32.or(i32.load(get('at')), i32.shl(i32.const(1), get('s')))),
         inc(f, 'visits'),
         set('d', get('e')),
@@ -352,7 +355,7 @@ function overSumsKernel(): Fn {
   });
   const { get, set } = f;
   return f.define(
-    set('mu', hdr(A.mu)),
+    set('mu', hdr(A.bitmap)),
     set('psi', hdr(A.psi)),
     set('psi1', hdr(A.tail)),
     set('z', f64.const(0)),
@@ -388,13 +391,16 @@ function overSumsKernel(): Fn {
  * post-order walk with children in descending c; each finished set B pushes λ_k T(B)/μ(B) to the
  * pending sum of B ∖ {k} (kept in tail[]), adds Ψ(B∖k)·f and Ψ(B)·f (k ∉ S) to L_k, and Ψ(B∖k)·f
  * to the (unscaled) flow into k from every partner of k that only k covers (bit of N1(B), so no
- * branch per partner). Ends with T(∅) = 1 + Σ.
+ * branch per partner). Ends with T(∅) = 1 + Σ. As `overTail`, the same walk over a shared trie after
+ * `over` (its μ in the μ slot): the children of each set are the trie's not in conflict with it in
+ * the design (kept per depth in bmask), as in over, so it visits the design's sets in the order of
+ * tail on the design's own trie.
  */
-function tailKernel(): Fn {
-  const f = new Fn('tail', { steps: 'i32' }, 'i32').locals({
+function tailKernel(name = 'tail', shared = false): Fn {
+  const f = new Fn(name, { steps: 'i32' }, 'i32').locals({
     ...WALK_LOCALS,
     tail: 'i32', a: 'i32', pt: 'i32', pe: 'i32',
-    nbc: 'i64', nd: 'i64', o: 'i64',
+    nbc: 'i64', nd: 'i64', o: 'i64', bm: 'i64',
     T: 'f64', m: 'f64', gs: 'f64', psg: 'f64', fk: 'f64', v: 'f64',
   });
   const { get, set } = f;
@@ -413,6 +419,14 @@ function tailKernel(): Fn {
           set('below', i64.sub(bit(get('c')), i64.const(1))),
           set('p', ld32(A.idx, get('d'))),
           ...stepDown(f),
+          ...(shared
+            ? [
+                // over a shared trie: the children of A ∪ c not in conflict in the design (see over)
+                set('bm', i64.or(ld64(A.bmask, get('d')), ld64(A.con, get('c')))),
+                st64(A.bmask, get('e'), get('bm')),
+                st64(A.todo, get('e'), i64.and(ld64(A.todo, get('e')), i64.xor(get('bm'), i64.const(-1)))),
+              ]
+            : []),
           set('nbc', ld64(A.nb, get('c'))),
           set('nd', ld64(A.nmask, get('d'))),
           st64(A.nmask, get('e'), i64.or(get('nd'), get('nbc'))),
@@ -484,7 +498,7 @@ let compiled: WebAssembly.Module | undefined;
 
 /** The kernels' module, assembled and compiled once per process. */
 export function kernelModule(): WebAssembly.Module {
-  compiled ??= new WebAssembly.Module(module([buildKernel(), prefixKernel(), tailKernel(), overKernel(), overSumsKernel()]));
+  compiled ??= new WebAssembly.Module(module([buildKernel(), prefixKernel(), tailKernel(), overKernel(), overSumsKernel(), tailKernel('overTail', true)]));
   return compiled;
 }
 
@@ -494,6 +508,7 @@ export interface Kernels {
   tail(steps: number): number;
   over(steps: number): number;
   overSums(words: number): number;
+  overTail(steps: number): number;
 }
 
 const instances = new WeakMap<WebAssembly.Memory, Kernels>();

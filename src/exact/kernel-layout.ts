@@ -37,7 +37,8 @@ export const A = (() => {
     buildS: take(4), // trie build state: next set to expand, sets so far
     buildSize: take(4),
     moment: take(4), // 1 = the prefix walk also fills Ψ1 (in the tail slot)
-    visits: take(8), // i32 (8 bytes kept for alignment): sets the walk over a shared trie has reached, ∅ not included
+    visits: take(4), // sets the walk over a shared trie has reached, ∅ not included
+    bitmap: take(4), // a memory of its own: byte offset of a bitmap of the sets (the walk over a shared trie)
     all: take(8), // i64: mask of all classes
     sat: take(8), // i64: a saturated set found by the prefix walk
     tol: take(8), // f64
@@ -58,6 +59,7 @@ export const A = (() => {
     smask: take(8 * MAX_D), // i64: A_d
     nmask: take(8 * MAX_D), // i64: N(A_d)
     omask: take(8 * MAX_D), // i64: classes with exactly one neighbour in A_d
+    bmask: take(8 * MAX_D), // i64: classes in conflict with A_d in the design (the tail walk over a shared trie)
     rem: take(4 * MAX_D * MAX_N), // i32: rem[64 d + j] = index of A_d ∖ {elem[j+1]}
     // partners: N(k) at pclass[pstart[k] .. pstart[k+1]); pflow: flow from each into k, unscaled
     pstart: take(4 * MAX_D + 4),
@@ -101,7 +103,9 @@ export function kernelMemory(g: MaskGraph, count: number, own = false): KernelMe
   const psi = mu + 8 * count;
   const tail = psi + 8 * count;
   const node = tail + 8 * count;
-  const end = node + 12 * count;
+  // a memory of its own also holds a bitmap of the sets (shared-trie.ts), 8-byte aligned
+  const bitmap = node + 12 * count + ((12 * count) % 8);
+  const end = own ? bitmap + 8 * Math.ceil(count / 64) : node + 12 * count;
   const pages = Math.ceil(end / PAGE);
   if (pages > MAX_PAGES) {
     throw new TooLargeError(`a connected group with ${count.toLocaleString('en-US')} independent sets needs more than 4 GiB for exact evaluation`, count, Math.floor((MAX_PAGES * PAGE) / 36));
@@ -127,6 +131,7 @@ export function kernelMemory(g: MaskGraph, count: number, own = false): KernelMe
   i32[A.mu >> 2] = mu;
   i32[A.psi >> 2] = psi;
   i32[A.tail >> 2] = tail;
+  i32[A.bitmap >> 2] = own ? bitmap : 0;
   let t = 0;
   for (let k = 0; k < n; k++) {
     f64[(A.rate >> 3) + k] = g.rate[k]!;

@@ -1,6 +1,7 @@
 import { describe, expect, it } from 'vitest';
-import { evaluateBacklog, type BacklogOnly } from '../../src/exact/evaluate.js';
-import { backlogOverShared, sharedTrie } from '../../src/exact/shared-trie.js';
+import { evaluateBacklog, evaluateExact, type BacklogOnly } from '../../src/exact/evaluate.js';
+import type { ExactResult } from '../../src/exact/result.js';
+import { backlogOverShared, exactOverShared, sharedTrie } from '../../src/exact/shared-trie.js';
 import { KERNEL_CHUNK } from '../../src/exact/trie.js';
 import { compileGraph, type CompiledModel } from '../../src/model/compile.js';
 import { randomPairs } from '../../src/model/generators.js';
@@ -13,7 +14,8 @@ import { Rng } from '../helpers/random.js';
  * so these compare with toBe / toEqual, not with a tolerance. On small designs the figures are also
  * checked against the permutation-sum closed form from the product form of "A product form for the
  * general stochastic matching model" (J. Appl. Probab. 2021), written independently in
- * tests/helpers/permutation-oracle.ts. Bases are random parts of each design's compatibilities
+ * tests/helpers/permutation-oracle.ts. The full evaluation over the shared trie (exactOverShared) is
+ * compared with evaluateExact the same way (every per-class figure and match rate). Bases are random parts of each design's compatibilities
  * (disconnected ones included), designs random supersets of a base.
  */
 
@@ -31,9 +33,9 @@ function rates(n: number, pairs: ReadonlyArray<readonly [number, number]>, rng: 
   return out.map((x) => x || 0.5);
 }
 
-type Outcome = BacklogOnly | { error: string; message: string };
+type Outcome = BacklogOnly | ExactResult | { error: string; message: string };
 
-function outcome(f: () => BacklogOnly | undefined): Outcome | undefined {
+function outcome(f: () => BacklogOnly | ExactResult | undefined): Outcome | undefined {
   try {
     return f();
   } catch (e) {
@@ -49,7 +51,7 @@ function superset(n: number, base: ReadonlyArray<readonly [number, number]>, rng
   return pairs;
 }
 
-describe('total backlog over a shared trie = evaluateBacklog, to the last bit', () => {
+describe('evaluation over a shared trie = evaluateBacklog / evaluateExact, to the last bit', () => {
   it('random bases and designs of 3–14 classes, stable and unstable, with self-pairs', () => {
     const rng = new Rng(9090);
     let stable = 0;
@@ -66,6 +68,8 @@ describe('total backlog over a shared trie = evaluateBacklog, to the last bit', 
         const fresh = outcome(() => evaluateBacklog(model));
         const over = outcome(() => backlogOverShared(shared, model));
         expect(over).toEqual(fresh);
+        // the full evaluation (tail walk over the same trie): every per-class figure and match rate
+        expect(outcome(() => exactOverShared(shared, model))).toEqual(outcome(() => evaluateExact(model)));
         if (fresh && 'error' in fresh) refused++;
         else {
           stable++;
@@ -93,6 +97,8 @@ describe('total backlog over a shared trie = evaluateBacklog, to the last bit', 
     expect(outcome(() => backlogOverShared(shared, ring))).toEqual(outcome(() => evaluateBacklog(ring)));
     expect(outcome(() => backlogOverShared(shared, ring))).toHaveProperty('error');
     expect(backlogOverShared(shared, chords)).toEqual(evaluateBacklog(chords));
+    expect(outcome(() => exactOverShared(shared, ring))).toEqual(outcome(() => evaluateExact(ring)));
+    expect(exactOverShared(shared, chords)).toEqual(evaluateExact(chords));
     expect(backlogOverShared(shared, chords)).toEqual(evaluateBacklog(chords));
   });
 
@@ -108,6 +114,7 @@ describe('total backlog over a shared trie = evaluateBacklog, to the last bit', 
       const fresh = evaluateBacklog(model);
       expect(fresh.independentSets).toBeGreaterThan(300);
       expect(backlogOverShared(shared, model)).toEqual(fresh);
+      expect(exactOverShared(shared, model)).toEqual(evaluateExact(model));
     }
     // a ring of 24 classes has 103 682 independent sets (the Lucas number L24): the walk resumes between calls
     const n = 24;
@@ -122,6 +129,7 @@ describe('total backlog over a shared trie = evaluateBacklog, to the last bit', 
     expect(backlogOverShared(shared, model)).toEqual(fresh);
     const chord = compileGraph(ids(n), r, [...ring, [0, 12], [5, 5]]);
     expect(backlogOverShared(shared, chord)).toEqual(evaluateBacklog(chord));
+    expect(exactOverShared(shared, chord)).toEqual(evaluateExact(chord));
   });
 });
 
@@ -134,11 +142,13 @@ describe('where the shared trie does not serve', () => {
 
   it('a design in two connected components, one without a base pair, other rates or classes: left to evaluateBacklog', () => {
     expect(backlogOverShared(shared, model([...base, [0, 0], [3, 3]]))).toBeUndefined();
+    expect(exactOverShared(shared, model([...base, [0, 0], [3, 3]]))).toBeUndefined();
     expect(backlogOverShared(shared, model([[0, 1], [1, 2], [3, 4], [2, 3], [0, 0], [5, 5], [0, 5]]))).toBeUndefined();
     expect(backlogOverShared(shared, model([...base, [2, 3], [0, 2], [3, 5], [0, 0], [5, 5]], [1, 1, 1, 1, 1, 1.5]))).toBeUndefined();
     expect(backlogOverShared(shared, compileGraph(ids(7), [...r, 1], [...base, [2, 3], [5, 6], [0, 0]]))).toBeUndefined();
     const connected = model([...base, [2, 3], [0, 2], [3, 5], [0, 0], [5, 5]]);
     expect(backlogOverShared(shared, connected)).toEqual(evaluateBacklog(connected));
+    expect(exactOverShared(shared, connected)).toEqual(evaluateExact(connected));
   });
 
   it('a base past the guard, a zero rate, more than 64 classes: no shared trie', () => {
