@@ -1,6 +1,7 @@
 /**
- * One trie for many designs: the total backlog of any design that contains a base graph, by a walk
- * over the base graph's trie, without counting the design's independent sets or building its trie.
+ * One trie for many designs: the exact figures of any design that contains a base graph (the total
+ * backlog alone, or everything evaluateExact gives), by walks over the base graph's trie, without
+ * counting the design's independent sets or building its trie.
  *
  * Why it is the same evaluation. A design whose compatibilities include all of the base's (same
  * classes, same rates) has fewer independent sets: each of its sets is independent in the base, and
@@ -8,7 +9,9 @@
  * c below min(A) addable in the base; the design's are those of them with c not in conflict with A
  * in the design, so the design's trie is the base trie with whole subtrees cut off, and the walk of
  * the `over` kernel (kernel-code.ts) visits exactly the design's sets in the order of the prefix walk
- * on its own trie, computing μ, r, Ψ and Ψ1 by the same operations on the same numbers. Breadth-first
+ * on its own trie, computing μ, r, Ψ and Ψ1 by the same operations on the same numbers; `overTail`
+ * likewise visits them in the order of the tail walk, so every push of T, backlog and flow happens
+ * in the same order as on the design's own trie (indices differ, values do not). Breadth-first
  * order restricted to a subtree-closed part of a tree is that part's own breadth-first order (by
  * induction on the depth: a node's rank is its parent's, then its class), so Σ Ψ and Σ Ψ1 over the
  * base's indices, with 0 at the sets the walk did not reach (x + 0 = x), add the same terms in the same
