@@ -31,7 +31,7 @@ import type { DesignProblem, Toggle } from '../src/design/space/problem.js';
 import { recommend, type Recommendation, type RecommendOptions } from '../src/design/search/recommend.js';
 import { reuses } from '../src/design/scoring/reuse.js';
 import { flipped, scoreFlips } from '../src/design/scoring/score-flips.js';
-import { scoreDesign } from '../src/design/scoring/score.js';
+import { scoreDesign, sharedTrieSets } from '../src/design/scoring/score.js';
 import { seededRandom } from '../src/random.js';
 import { ringWithChords } from './_ring-with-chords.js';
 import { builtCli, scratchDir, timeProcess } from './_processes.js';
@@ -253,7 +253,7 @@ function penaltyReuse(): void {
       console.log(
         `${'penalty-reuse'.padEnd(26)} ${n} classes, ${sets.toLocaleString('en-US')} sets, ${k} paid toggles (${stable} drops stable), ${perClass ? 'per-class figures' : 'total backlog only'}: ` +
           `penalty check ${fresh.toFixed(0)} ms afresh, ${reuse.toFixed(0)} ms by reuse (${(reuse / fresh).toFixed(2)}); ` +
-          `the recommender ${reuses('auto', perClass, sets, k) ? 'reuses' : 'scores afresh'} here`,
+          `the recommender ${reuses('auto', perClass, sets, k, sharedTrieSets(spec)) ? 'reuses' : 'scores afresh'} here`,
       );
     }
   }

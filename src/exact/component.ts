@@ -93,9 +93,10 @@ function startWalk(m: KernelMemory): void {
  *   1 − (1/Z) Σ_{A∩N(i)=∅} Ψ(A) = Σ_j M(i→j) / λ_i,
  * a sum of positive terms (no cancellation), and no extra pass over the classes per set.
  * Everything is divided by Z = T(∅) at the end. tail[] is overwritten (its input is ignored). The
- * walk runs in WebAssembly (kernel-code.ts: tail); tail receives a copy of T.
+ * walk runs in WebAssembly (kernel-code.ts: tail; `overTail` for a design over a shared trie after its
+ * `over` walk, shared-trie.ts); tail receives a copy of T.
  */
-export function tailPass(g: MaskGraph, t: SetTrie, psi: Float64Array, tail: Float64Array): ComponentMetrics {
+export function tailPass(g: MaskGraph, t: SetTrie, psi: Float64Array, tail: Float64Array, kernel: 'tail' | 'overTail' = 'tail'): ComponentMetrics {
   const n = g.n;
   const rate = g.rate;
   const { memory: m, run } = t.kernel;
@@ -108,7 +109,7 @@ export function tailPass(g: MaskGraph, t: SetTrie, psi: Float64Array, tail: Floa
   backlog.fill(0);
   pflow.fill(0);
   startWalk(m);
-  while (run.tail(KERNEL_CHUNK) === 1);
+  while (run[kernel](KERNEL_CHUNK) === 1);
   const flow = new Float64Array(n * n); // flow[i*n + k] / λ_i until the end
   for (let k = 0; k < n; k++) for (let t = pstart[k]!; t < pstart[k + 1]!; t++) flow[pclass[t]! * n + k] = pflow[t]!;
   if (tail !== m.tail) tail.set(m.tail);

@@ -2,7 +2,7 @@ import { block, br, brIf, f64, Fn, i32, i64, loop, module, ret, when, type Code 
 import { A } from './kernel-layout.js';
 
 /**
- * The exact evaluator's three inner loops as WebAssembly (assembled by src/wasm/assemble.ts), on the
+ * The exact evaluator's inner loops as WebAssembly (assembled by src/wasm/assemble.ts), on the
  * memory laid out by kernel-layout.ts. Each is the loop of the JavaScript it replaced, with 64-bit
  * masks and native popcnt/ctz; the recursions are stated in component.ts (prefixSums, tailPass) and
  * trie.ts (buildTrie). Each kernel works in chunks of at most `steps` sets and keeps its state in
@@ -244,17 +244,163 @@ function prefixKernel(): Fn {
 }
 
 /**
+ * over(steps): the prefix walk with the first moment (prefix with moment 1) of a design whose
+ * independent sets are a part of the trie's: the trie was built for a base graph whose edges the
+ * design all has (shared-trie.ts), and the per-class arrays (nb, con, rnl) are the design's. A set
+ * of the trie is the design's when none of its members conflict in the design, and then so are all
+ * its subsets; so the walk takes, below each set A, only the children c with c ∉ B(A) = ∪_{a∈A}
+ * con(a) (kept per depth in omask) and never enters the rest. μ(A) = λ(N(A)) is the design's, from
+ * N(A) carried per depth in nmask (the same mask, so the same sum, as the trie build's). Every other
+ * step, and the order of the sets, is prefix's on the design's own trie; the indices of A ∖ x, Ψ and
+ * Ψ1 share one loop over the members (each sum takes its terms in prefix's order). Each set reached
+ * gets its μ in the μ slot (for a tail walk after it) and its bit in the bitmap at the header's
+ * `bitmap` (bit 0, ∅, set by the caller), and is counted in `visits`. Returns -1 as prefix does.
+ */
+function overKernel(): Fn {
+  const f = new Fn('over', { steps: 'i32' }, 'i32').locals({
+    ...WALK_LOCALS,
+    psi1: 'i32', visits: 'i32', at: 'i32', bitmap: 'i32',
+    sum: 'f64', den: 'f64', ps: 'f64', m1: 'f64', re: 'f64', tol: 'f64', w: 'f64', x: 'f64', mus: 'f64',
+    nm: 'i64', bm: 'i64',
+  });
+  const { get, set } = f;
+  const psiAt = (s: Code): Code => f64.load(el8(get('psi'), s));
+  const psi1At = (s: Code): Code => f64.load(el8(get('psi1'), s));
+  return f.define(
+    ...loadWalk(f),
+    set('psi1', hdr(A.tail)),
+    set('visits', hdr(A.visits)),
+    set('bitmap', hdr(A.bitmap)),
+    set('tol', f64.load(i32.const(A.tol))),
+    block('exit',
+      loop('walk',
+        brIf('exit', i32.lt_s(get('d'), i32.const(0))),
+        brIf('exit', i32.eqz(get('steps'))),
+        set('t', ld64(A.todo, get('d'))),
+        when(i64.eqz(get('t')), [dec(f, 'd'), br('walk')]),
+        set('c', low(get('t'))),
+        st64(A.todo, get('d'), dropLow(get('t'))),
+        set('below', i64.sub(bit(get('c')), i64.const(1))),
+        set('p', ld32(A.idx, get('d'))),
+        set('e', i32.add(get('d'), i32.const(1))),
+        set('s', child(f, get('p'))),
+        st32(A.idx, get('e'), get('s')),
+        st32(A.elem, get('e'), get('c')),
+        set('w', ldf(A.rate, get('c'))),
+        stf(A.erate, get('e'), get('w')),
+        // Ψ(A) = Σ_{i∈A} λ_i Ψ(A∖i) / (μ(A) − r(A)), Ψ1(A) = [Σ_{i∈A} λ_i (Ψ1(A∖i) + Ψ(A∖i)) + r(A) Ψ(A)] / (μ(A) − r(A));
+        // the term of c first, then the members in stack order (prefix's order)
+        set('x', psiAt(get('p'))),
+        set('sum', f64.mul(get('w'), get('x'))),
+        set('m1', f64.mul(get('w'), f64.add(psi1At(get('p')), get('x')))),
+        set('j', i32.const(0)),
+        block('done',
+          loop('members',
+            brIf('done', i32.ge_s(get('j'), get('d'))),
+            // (A_d ∖ elem[j+1]) ∪ {c}
+            set('q', child(f, i32.load(remAt(get('d'), get('j')), A.rem))),
+            i32.store(remAt(get('e'), get('j')), get('q'), A.rem),
+            set('w', f64.load(shl(get('j'), 3), A.erate + 8)),
+            set('x', psiAt(get('q'))),
+            set('sum', f64.add(get('sum'), f64.mul(get('w'), get('x')))),
+            set('m1', f64.add(get('m1'), f64.mul(get('w'), f64.add(psi1At(get('q')), get('x'))))),
+            inc(f, 'j'),
+            br('members'),
+          ),
+        ),
+        i32.store(remAt(get('e'), get('d')), get('p'), A.rem),
+        set('re', f64.add(ldf(A.r, get('d')), ldf(A.rnl, get('c')))),
+        stf(A.r, get('e'), get('re')),
+        st64(A.smask, get('e'), i64.or(ld64(A.smask, get('d')), bit(get('c')))),
+        // the design's conflicts and neighbours of A ∪ c; its children: the trie's not in conflict
+        set('bm', i64.or(ld64(A.omask, get('d')), ld64(A.con, get('c')))),
+        st64(A.omask, get('e'), get('bm')),
+        st64(A.todo, get('e'), i64.and(i64.load(i32.add(get('node'), i32.mul(get('s'), i32.const(12))), 4), i64.xor(get('bm'), i64.const(-1)))),
+        set('nm', i64.or(ld64(A.nmask, get('d')), ld64(A.nb, get('c')))),
+        st64(A.nmask, get('e'), get('nm')),
+        set('mus', maskRate(get('nm'))),
+        f64.store(el8(get('mu'), get('s')), get('mus')),
+        set('den', f64.sub(get('mus'), get('re'))),
+        when(i32.eqz(f64.gt(get('den'), get('tol'))), [
+          i64.store(i32.const(A.sat), ld64(A.smask, get('e'))),
+          i32.store(i32.const(A.visits), get('visits')),
+          ret(i32.const(-1)),
+        ]),
+        set('ps', f64.div(get('sum'), get('den'))),
+        f64.store(el8(get('psi'), get('s')), get('ps')),
+        f64.store(el8(get('psi1'), get('s')), f64.div(f64.add(get('m1'), f64.mul(get('re'), get('ps'))), get('den'))),
+        // bit s of the bitmap
+        set('at', i32.add(get('bitmap'), shl(i32.shr_u(get('s'), i32.const(5)), 2))),
+        i32.store(get('at'), i32.or(i32.load(get('at')), i32.shl(i32.const(1), get('s')))),
+        inc(f, 'visits'),
+        set('d', get('e')),
+        dec(f, 'steps'),
+        br('walk'),
+      ),
+    ),
+    i32.store(i32.const(A.depth), get('d')),
+    i32.store(i32.const(A.visits), get('visits')),
+    ret(i32.ge_s(get('d'), i32.const(0))),
+  );
+}
+
+/**
+ * overSums(words): Σ Ψ and Σ Ψ1 over the sets whose bit is set in the first `words` 32-bit words
+ * of the bitmap (over), in increasing index, i.e. in the order of the design's own trie (see
+ * shared-trie.ts); clears the bitmap on the way. The sums go to the header's `sums`.
+ */
+function overSumsKernel(): Fn {
+  const f = new Fn('overSums', { words: 'i32' }, 'i32').locals({
+    mu: 'i32', psi: 'i32', psi1: 'i32', i: 'i32', b: 'i32', s: 'i32', z: 'f64', m1: 'f64',
+  });
+  const { get, set } = f;
+  return f.define(
+    set('mu', hdr(A.bitmap)),
+    set('psi', hdr(A.psi)),
+    set('psi1', hdr(A.tail)),
+    set('z', f64.const(0)),
+    set('m1', f64.const(0)),
+    set('i', i32.const(0)),
+    block('exit',
+      loop('words',
+        brIf('exit', i32.ge_s(get('i'), get('words'))),
+        set('b', i32.load(i32.add(get('mu'), shl(get('i'), 2)))),
+        i32.store(i32.add(get('mu'), shl(get('i'), 2)), i32.const(0)),
+        block('done',
+          loop('bits',
+            brIf('done', i32.eqz(get('b'))),
+            set('s', i32.add(shl(get('i'), 5), i32.ctz(get('b')))),
+            set('z', f64.add(get('z'), f64.load(el8(get('psi'), get('s'))))),
+            set('m1', f64.add(get('m1'), f64.load(el8(get('psi1'), get('s'))))),
+            set('b', i32.and(get('b'), i32.sub(get('b'), i32.const(1)))),
+            br('bits'),
+          ),
+        ),
+        inc(f, 'i'),
+        br('words'),
+      ),
+    ),
+    f64.store(i32.const(A.sums), get('z')),
+    f64.store(i32.const(A.sums + 8), get('m1')),
+    ret(i32.const(0)),
+  );
+}
+
+/**
  * tail(steps): T and the per-class sums in decreasing mask order (component.ts tailPass): a
  * post-order walk with children in descending c; each finished set B pushes λ_k T(B)/μ(B) to the
  * pending sum of B ∖ {k} (kept in tail[]), adds Ψ(B∖k)·f and Ψ(B)·f (k ∉ S) to L_k, and Ψ(B∖k)·f
  * to the (unscaled) flow into k from every partner of k that only k covers (bit of N1(B), so no
- * branch per partner). Ends with T(∅) = 1 + Σ.
+ * branch per partner). Ends with T(∅) = 1 + Σ. As `overTail`, the same walk over a shared trie after
+ * `over` (its μ in the μ slot): the children of each set are the trie's not in conflict with it in
+ * the design (kept per depth in bmask), as in over, so it visits the design's sets in the order of
+ * tail on the design's own trie.
  */
-function tailKernel(): Fn {
-  const f = new Fn('tail', { steps: 'i32' }, 'i32').locals({
+function tailKernel(name = 'tail', shared = false): Fn {
+  const f = new Fn(name, { steps: 'i32' }, 'i32').locals({
     ...WALK_LOCALS,
     tail: 'i32', a: 'i32', pt: 'i32', pe: 'i32',
-    nbc: 'i64', nd: 'i64', o: 'i64',
+    nbc: 'i64', nd: 'i64', o: 'i64', bm: 'i64',
     T: 'f64', m: 'f64', gs: 'f64', psg: 'f64', fk: 'f64', v: 'f64',
   });
   const { get, set } = f;
@@ -273,6 +419,14 @@ function tailKernel(): Fn {
           set('below', i64.sub(bit(get('c')), i64.const(1))),
           set('p', ld32(A.idx, get('d'))),
           ...stepDown(f),
+          ...(shared
+            ? [
+                // over a shared trie: the children of A ∪ c not in conflict in the design (see over)
+                set('bm', i64.or(ld64(A.bmask, get('d')), ld64(A.con, get('c')))),
+                st64(A.bmask, get('e'), get('bm')),
+                st64(A.todo, get('e'), i64.and(ld64(A.todo, get('e')), i64.xor(get('bm'), i64.const(-1)))),
+              ]
+            : []),
           set('nbc', ld64(A.nb, get('c'))),
           set('nd', ld64(A.nmask, get('d'))),
           st64(A.nmask, get('e'), i64.or(get('nd'), get('nbc'))),
@@ -344,7 +498,7 @@ let compiled: WebAssembly.Module | undefined;
 
 /** The kernels' module, assembled and compiled once per process. */
 export function kernelModule(): WebAssembly.Module {
-  compiled ??= new WebAssembly.Module(module([buildKernel(), prefixKernel(), tailKernel()]));
+  compiled ??= new WebAssembly.Module(module([buildKernel(), prefixKernel(), tailKernel(), overKernel(), overSumsKernel(), tailKernel('overTail', true)]));
   return compiled;
 }
 
@@ -352,6 +506,9 @@ export interface Kernels {
   build(steps: number): number;
   prefix(steps: number): number;
   tail(steps: number): number;
+  over(steps: number): number;
+  overSums(words: number): number;
+  overTail(steps: number): number;
 }
 
 const instances = new WeakMap<WebAssembly.Memory, Kernels>();

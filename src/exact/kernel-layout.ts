@@ -37,6 +37,8 @@ export const A = (() => {
     buildS: take(4), // trie build state: next set to expand, sets so far
     buildSize: take(4),
     moment: take(4), // 1 = the prefix walk also fills Ψ1 (in the tail slot)
+    visits: take(4), // sets the walk over a shared trie has reached, ∅ not included
+    bitmap: take(4), // a memory of its own: byte offset of a bitmap of the sets (the walk over a shared trie)
     all: take(8), // i64: mask of all classes
     sat: take(8), // i64: a saturated set found by the prefix walk
     tol: take(8), // f64
@@ -50,11 +52,14 @@ export const A = (() => {
     // per depth of the walk
     idx: take(4 * MAX_D + 4), // i32: trie index of the set on the stack at depth d
     elem: take(4 * MAX_D + 4), // i32: class added at depth d
+    erate: take(8 * MAX_D), // f64: λ of the class added at depth d (the walk over a shared trie)
+    sums: take(16), // f64 × 2: Σ Ψ and Σ Ψ1 of the walk over a shared trie
     r: take(8 * MAX_D), // f64: r(A_d)
     todo: take(8 * MAX_D), // i64: children still to visit
     smask: take(8 * MAX_D), // i64: A_d
     nmask: take(8 * MAX_D), // i64: N(A_d)
     omask: take(8 * MAX_D), // i64: classes with exactly one neighbour in A_d
+    bmask: take(8 * MAX_D), // i64: classes in conflict with A_d in the design (the tail walk over a shared trie)
     rem: take(4 * MAX_D * MAX_N), // i32: rem[64 d + j] = index of A_d ∖ {elem[j+1]}
     // partners: N(k) at pclass[pstart[k] .. pstart[k+1]); pflow: flow from each into k, unscaled
     pstart: take(4 * MAX_D + 4),
@@ -86,22 +91,28 @@ const MAX_PAGES = 65536; // 4 GiB, the limit of 32-bit WebAssembly memories
 export const POOL_BYTES = 4 << 20;
 let pool: { memory: WebAssembly.Memory; generation: number } | undefined;
 
-/** Lays out and fills the memory of one component (graph, header; the arrays are left as they are). */
-export function kernelMemory(g: MaskGraph, count: number): KernelMemory {
+/**
+ * Lays out and fills the memory of one component (graph, header; the arrays are left as they are).
+ * `own`: a memory of its own even when the pool would hold it (a trie kept across evaluations,
+ * shared-trie.ts).
+ */
+export function kernelMemory(g: MaskGraph, count: number, own = false): KernelMemory {
   const n = g.n;
   if (n > MAX_N) throw new RangeError(`kernels hold at most ${MAX_N} classes`);
   const mu = A.end;
   const psi = mu + 8 * count;
   const tail = psi + 8 * count;
   const node = tail + 8 * count;
-  const end = node + 12 * count;
+  // a memory of its own also holds a bitmap of the sets (shared-trie.ts), 8-byte aligned
+  const bitmap = node + 12 * count + ((12 * count) % 8);
+  const end = own ? bitmap + 8 * Math.ceil(count / 64) : node + 12 * count;
   const pages = Math.ceil(end / PAGE);
   if (pages > MAX_PAGES) {
     throw new TooLargeError(`a connected group with ${count.toLocaleString('en-US')} independent sets needs more than 4 GiB for exact evaluation`, count, Math.floor((MAX_PAGES * PAGE) / 36));
   }
   let memory: WebAssembly.Memory;
   let current: () => boolean;
-  if (end <= POOL_BYTES) {
+  if (end <= POOL_BYTES && !own) {
     pool ??= { memory: new WebAssembly.Memory({ initial: POOL_BYTES / PAGE }), generation: 0 };
     const p = pool;
     const generation = ++p.generation;
@@ -120,6 +131,7 @@ export function kernelMemory(g: MaskGraph, count: number): KernelMemory {
   i32[A.mu >> 2] = mu;
   i32[A.psi >> 2] = psi;
   i32[A.tail >> 2] = tail;
+  i32[A.bitmap >> 2] = own ? bitmap : 0;
   let t = 0;
   for (let k = 0; k < n; k++) {
     f64[(A.rate >> 3) + k] = g.rate[k]!;

@@ -51,9 +51,12 @@ export function nextLowest(todoLo: Int32Array, todoHi: Int32Array, d: number): n
 /** Sets per kernel call (see kernel-code.ts: the optimising tier only takes over between calls). */
 export const KERNEL_CHUNK = 1 << 16;
 
-/** Builds the trie of all `count` independent sets (count from countIndependentSets). */
-export function buildTrie(g: MaskGraph, count: number): SetTrie {
-  const memory = kernelMemory(g, count);
+/**
+ * Builds the trie of all `count` independent sets (count from countIndependentSets). `own`: in a
+ * memory of its own, valid for as long as it is held (see kernelMemory).
+ */
+export function buildTrie(g: MaskGraph, count: number, own = false): SetTrie {
+  const memory = kernelMemory(g, count, own);
   const run = kernels(memory.memory);
   memory.i32[A.buildS >> 2] = 0;
   memory.i32[A.buildSize >> 2] = 1; // ∅ is there from the start

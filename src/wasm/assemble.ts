@@ -119,6 +119,8 @@ export const i32 = {
   and: op2(0x71),
   or: op2(0x72),
   shl: op2(0x74),
+  shr_u: op2(0x76),
+  ctz: op1(0x68),
   wrap: op1(0xa7),
 };
 

@@ -8,6 +8,7 @@ import type { DesignProblem } from '../../src/design/space/problem.js';
 import { recommend, type Recommendation, type RecommendOptions } from '../../src/design/search/recommend.js';
 import { REUSE_MIN_SETS, reuses, type ReuseMode } from '../../src/design/scoring/reuse.js';
 import { scoreSpecOf } from '../../src/design/scoring/evaluator.js';
+import { SHARED_TRIE_SPARSE } from '../../src/design/scoring/score.js';
 import { seededRandom } from '../../src/random.js';
 import { allDesigns, bruteFront } from '../helpers/design-brute.js';
 import { randomProblem } from '../helpers/design-problems.js';
@@ -204,5 +205,12 @@ describe('the reuse policy (thresholds measured in bench/_incremental-crossover.
     expect(reuses('auto', true, 5e6, 40)).toBe(false); // beyond the single-change memory guard
     expect(reuses('always', false, 10, 1)).toBe(true);
     expect(reuses('never', true, 5_000, 40)).toBe(false);
+  });
+
+  it("'auto' scores afresh where the fixed pairs' shared trie serves the base (at least 1/SHARED_TRIE_SPARSE of its sets)", () => {
+    expect(reuses('auto', true, 5_000, 40, 5_000 * SHARED_TRIE_SPARSE)).toBe(false);
+    expect(reuses('auto', true, 5_000, 40, 5_000 * SHARED_TRIE_SPARSE + 1)).toBe(true);
+    expect(reuses('auto', true, 5_000, 40, undefined)).toBe(true);
+    expect(reuses('always', true, 5_000, 40, 5_000)).toBe(true);
   });
 });

@@ -116,6 +116,8 @@ export class DesignEvaluator {
     private readonly onProgress?: (p: EvaluatorProgress) => void,
     /** When designs with an origin are scored by reuse (reuse.ts). */
     readonly reuse: ReuseMode = 'auto',
+    /** The set count of the fixed pairs' shared trie fresh scoring makes (score.ts sharedTrieSets), if any. */
+    private readonly sharedSets?: number,
   ) {
     this.perClass = needsPerClass(objective, problem.waitTarget.some((w) => Number.isFinite(w)));
     this.matchValue = needsMatchRates(objective);
@@ -231,7 +233,7 @@ export class DesignEvaluator {
       g.at.push(i);
     });
     for (const g of groups.values()) {
-      if (reuses(this.reuse, this.perClass, g.from.independentSets, g.flips.length)) {
+      if (reuses(this.reuse, this.perClass, g.from.independentSets, g.flips.length, this.sharedSets)) {
         tasks.push({ base: g.from.design, flips: g.flips });
         at.push(g.at);
       } else {

@@ -16,10 +16,21 @@
  *   1.7–5.1 from 50 000 to 1.7M; at k = 8 reuse took 0.49–0.67 of the fresh time up to 65 000 sets
  *   and 0.64–0.87 above. Unstable neighbours (the recursion stops early, afresh too) move the
  *   break-even up; below 1 000 sets one evaluation takes under 0.2 ms. Hence the thresholds below.
+ * Measured again in one session at load 6–7 (`npx tsx bench/recommend.ts penalty-reuse`, the 8 drops
+ * of a design with per-class figures, CPU time afresh against by reuse): before fresh scoring ran over
+ * the shared trie of the fixed pairs (score.ts, exact/shared-trie.ts), 41 against 113 ms at 24 classes
+ * (54 391 sets) and 684 against 1 054 ms at 30 classes (475 350 sets), so reuse no longer paid there
+ * even then (fresh scoring has become faster since the figures above were taken); with the shared trie
+ * 43 against 121 ms and 902 against 1 285 ms. A whole search, 20 classes × 40 candidates with the
+ * `weighted` objective: 39.2 s with the rule above and 34.0 s with 'never' before; 26.8 s (this rule)
+ * and 27.8 s ('never') with the shared trie. So 'auto' scores afresh wherever the fixed pairs' shared
+ * trie is made and the base design reaches at least 1/SHARED_TRIE_SPARSE of its sets (the rule by
+ * which a thread keeps it); elsewhere the thresholds above stand (not measured again).
  * Results do not depend on the choice beyond 1e-10 relative (the single-change evaluator's accuracy):
  * verdicts, counts and refusals are the same (score-flips.ts).
  */
 import { DEFAULT_CHANGE_MAX_SETS } from '../../exact/single-change.js';
+import { SHARED_TRIE_SPARSE } from './score.js';
 
 export type ReuseMode = 'auto' | 'always' | 'never';
 
@@ -40,12 +51,15 @@ export const REUSE_MIN_FLIPS_LARGE = 8;
 /**
  * True when `flips` designs one toggle away from a stable base of `sets` independent sets should be
  * scored by reuse. `perClass`: the scoring computes per-class figures (evaluateExact when fresh).
+ * `sharedSets`: the set count of the fixed pairs' shared trie when fresh scoring makes one
+ * (sharedTrieSets in score.ts), undefined otherwise.
  * 'auto' also leaves bases beyond the single-change memory guard to fresh scoring; 'always' (tests,
  * benchmarks) reuses whenever it can (score-flips.ts falls back to fresh scoring when it cannot).
  */
-export function reuses(mode: ReuseMode, perClass: boolean, sets: number, flips: number): boolean {
+export function reuses(mode: ReuseMode, perClass: boolean, sets: number, flips: number, sharedSets?: number): boolean {
   if (mode === 'never' || flips < 1) return false;
   if (mode === 'always') return true;
   if (!perClass || sets < REUSE_MIN_SETS || sets > DEFAULT_CHANGE_MAX_SETS) return false;
+  if (sharedSets !== undefined && sets * SHARED_TRIE_SPARSE >= sharedSets) return false;
   return flips >= (sets < REUSE_LARGE_SETS ? REUSE_MIN_FLIPS : REUSE_MIN_FLIPS_LARGE);
 }

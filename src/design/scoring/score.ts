@@ -10,7 +10,10 @@
 import { TooLargeError, UnstableDesignError } from '../../errors.js';
 import { compileGraph, type CompiledModel } from '../../model/compile.js';
 import { bipartition, components } from '../../model/components.js';
-import { evaluateBacklog, evaluateExact } from '../../exact/evaluate.js';
+import { DEFAULT_MAX_SETS, evaluateBacklog, evaluateExact } from '../../exact/evaluate.js';
+import { countIndependentSets } from '../../exact/count.js';
+import { maskGraph } from '../../exact/masks.js';
+import { backlogOverShared, exactOverShared, sharedTrie, type SharedTrie } from '../../exact/shared-trie.js';
 import { valueRate as sumValue } from '../../model/values.js';
 import { checkStability } from '../../stability/check.js';
 import { mergeFigures, simulateDesign, type Interval, type SimFigures, type SimPlan } from './sim-score.js';
@@ -194,14 +197,71 @@ function exactScore(spec: ScoreSpec, model: CompiledModel, design: ArrayLike<num
   const options = spec.maxSets === undefined ? {} : { maxSets: spec.maxSets };
   try {
     if (spec.perClass || spec.matchValue === true) {
-      const r = evaluateExact(model, options);
+      const r = sharedEvaluation(spec, model, options, exactOverShared) ?? evaluateExact(model, options);
       const valueRate = spec.matchValue ? sumValue(specValues(spec, design), r.matchRates) : NaN;
       return { stable: true, backlogTotal: r.backlogTotal, backlog: spec.perClass ? r.backlog : null, valueRate, independentSets: r.independentSets, evaluated: true };
     }
-    const r = evaluateBacklog(model, options);
+    const r = sharedEvaluation(spec, model, options, backlogOverShared) ?? evaluateBacklog(model, options);
     return { stable: true, backlogTotal: r.backlogTotal, backlog: null, valueRate: NaN, independentSets: r.independentSets, evaluated: true };
   } catch (e) {
     if (e instanceof UnstableDesignError) return UNSTABLE_EVALUATED;
     throw e;
   }
+}
+
+/**
+ * The shared trie of a spec's fixed pairs (exact/shared-trie.ts), made on its first exact scoring in
+ * this thread: every design contains the fixed pairs, so every connected design is evaluated over it
+ * with the figures, count and refusals of evaluateBacklog / evaluateExact to the last bit. Which path
+ * a design takes therefore changes its time only, never a result, and the choice may depend on what
+ * this thread has scored. The walk's fixed cost is in the base's count (the bitmap, and the tail
+ * array a full evaluation clears): a base past SHARED_TRIE_MAX_SETS is not made, and one whose designs
+ * reach on average less than 1/SHARED_TRIE_SPARSE of its sets (judged after SHARED_TRIE_TRIAL
+ * designs) is dropped.
+ */
+interface SharedState {
+  trie: SharedTrie | undefined;
+  designs: number;
+  sets: number;
+}
+
+export const SHARED_TRIE_MAX_SETS = 1 << 20;
+export const SHARED_TRIE_SPARSE = 8;
+export const SHARED_TRIE_TRIAL = 16;
+
+const shared = new WeakMap<ScoreSpec, SharedState>();
+
+function sharedEvaluation<R extends { readonly independentSets: number }>(
+  spec: ScoreSpec,
+  model: CompiledModel,
+  options: { maxSets?: number },
+  evaluate: (t: SharedTrie, model: CompiledModel, options: { maxSets?: number }) => R | undefined,
+): R | undefined {
+  let st = shared.get(spec);
+  if (!st) {
+    const limit = Math.min(SHARED_TRIE_MAX_SETS, options.maxSets ?? DEFAULT_MAX_SETS);
+    st = { trie: sharedTrie(compileGraph(spec.ids, spec.rates, spec.fixed), limit), designs: 0, sets: 0 };
+    shared.set(spec, st);
+  }
+  const t = st.trie;
+  if (!t) return undefined;
+  const r = evaluate(t, model, options);
+  if (!r) return undefined;
+  st.designs++;
+  st.sets += r.independentSets;
+  if (st.designs >= SHARED_TRIE_TRIAL && st.sets * SHARED_TRIE_SPARSE < st.designs * t.count) st.trie = undefined;
+  return r;
+}
+
+/**
+ * The set count of the shared trie a thread makes for the spec (the fixed pairs' independent sets),
+ * or undefined when it makes none: a pure function of the spec, so that a choice made from it (reuse.ts)
+ * never depends on a thread.
+ */
+export function sharedTrieSets(spec: ScoreSpec): number | undefined {
+  const n = spec.ids.length;
+  if (n === 0 || n > 64 || spec.rates.some((r) => !(r > 0))) return undefined;
+  const limit = Math.min(SHARED_TRIE_MAX_SETS, spec.maxSets ?? DEFAULT_MAX_SETS);
+  const count = countIndependentSets(maskGraph(compileGraph(spec.ids, spec.rates, spec.fixed)), limit);
+  return count > limit ? undefined : count;
 }

@@ -26,7 +26,7 @@ import { checkStability } from '../../stability/check.js';
 import { seededRandom } from '../../random.js';
 import { baselines as buildBaselines, type BaselineName } from './baselines.js';
 import { DesignEvaluator, overAbandonmentLimit, scoreSpecOf, type DesignRecord, type ScoringChoice } from '../scoring/evaluator.js';
-import { extendedScore, hasPatience, simulatesAlways, type Score, type ScoreMethod, type SimulatedFigures } from '../scoring/score.js';
+import { extendedScore, hasPatience, sharedTrieSets, simulatesAlways, type Score, type ScoreMethod, type SimulatedFigures } from '../scoring/score.js';
 import { pairedDifference, reportPlan, searchPlan, type PairedDifference } from '../scoring/sim-score.js';
 import { allocateReplications, allocationPlan, INDIFFERENCE, limitInsideInterval, negligibleDifference, type AllocationRecord } from './allocation.js';
 import { exhaustiveSearch, MAX_EXHAUSTIVE_TOGGLES } from './exhaustive.js';
@@ -458,7 +458,10 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
   const url = options.workerUrl === null ? undefined : (options.workerUrl ?? workerScriptUrl());
   const scorer = createScorer(spec, options.jobs ?? 1, url, options.signal);
   let phase: RecommendProgress['phase'] = 'milp';
-  const evaluator = new DesignEvaluator(problem, objective, scorer, (p) => options.onProgress?.({ phase, ...p }), options.reuse ?? 'auto');
+  const reuse = options.reuse ?? 'auto';
+  // reuse pays only where fresh scoring has no shared trie (reuse.ts); the count is needed only then
+  const sharedSets = reuse === 'auto' && spec.perClass && !simulatesAlways(spec) ? sharedTrieSets(spec) : undefined;
+  const evaluator = new DesignEvaluator(problem, objective, scorer, (p) => options.onProgress?.({ phase, ...p }), reuse, sharedSets);
   const solve = { timeLimitSeconds: options.milpTimeLimitSeconds ?? 30 };
   const stopped = (): boolean => options.signal?.aborted === true;
   try {
