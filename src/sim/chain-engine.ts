@@ -285,7 +285,9 @@ export class ChainEngine {
   /**
    * FCFM for at most 32 classes: a bitmask of the classes with waiting items, intersected with the
    * candidate mask of the arrival, gives the non-empty candidates directly (often none or one).
-   * Returns −1, or the class whose full ring stopped it (see runFcfm).
+   * The candidates' oldest items are read from the rings, so the loop keeps no headVal (one store
+   * and one unpredictable branch fewer per arrival; about 5 % faster, bench/simulate.ts); headVal
+   * is set once on leaving. Returns −1, or the class whose full ring stopped it (see runFcfm).
    */
   private fcfmMaskChunk(count: number): number {
     const { n } = this.model;
@@ -293,9 +295,10 @@ export class ChainEngine {
     const alias = this.model.alias.alias;
     const candMask = this.candMask;
     const { counts, headVal, queues, pairs } = this;
-    const { head, off, mask, cap, buf } = queues;
+    const { head, off, mask, buf } = queues;
     const { waitSum, hist, bins } = this.counters;
     const maxWaiting = this.maxWaiting;
+    const exactBins = EXACT_ARRIVAL_BINS; // a local: one register, not a module binding
     const scale = n * TWO_POW_M32;
     const rng = this.rng;
     let s0 = rng[0]! | 0;
@@ -315,7 +318,8 @@ export class ChainEngine {
       let k = xf | 0;
       if (xf - k >= keep[k]!) k = alias[k]!;
       let cand = busy & candMask[k]!;
-      if (cand === 0 && counts[k] === cap[k]) {
+      if (cand === 0 && counts[k]! > mask[k]!) {
+        // the ring is full (count = cap = mask + 1)
         full = k;
         break;
       }
@@ -329,45 +333,42 @@ export class ChainEngine {
       if (cand === 0) {
         const c = counts[k]!;
         buf[off[k]! + ((head[k]! + c) & mask[k]!)] = t;
-        if (c === 0) {
-          headVal[k] = t;
-          busy |= 1 << k;
-        }
+        busy |= 1 << k;
         counts[k] = c + 1;
         if (++waiting > maxWaiting) {
           t++;
           break;
         }
       } else {
+        // the oldest head among the candidates, read from the rings (headVal is not kept here)
         let best = 31 - Math.clz32(cand & -cand);
-        let bt = headVal[best]!;
+        let hb = head[best]!;
+        let bt = buf[off[best]! + hb]!;
         cand &= cand - 1;
         while (cand !== 0) {
           const j = 31 - Math.clz32(cand & -cand);
-          const h = headVal[j]!;
+          const hj = head[j]!;
+          const h = buf[off[j]! + hj]!;
           if (h < bt) {
             bt = h;
             best = j;
+            hb = hj;
           }
           cand &= cand - 1;
         }
-        const c = counts[best]!;
-        const h = (head[best]! + 1) & mask[best]!;
-        head[best] = h;
-        counts[best] = c - 1;
-        if (c > 1) headVal[best] = buf[off[best]! + h]!;
-        else {
-          headVal[best] = Infinity;
-          busy &= ~(1 << best);
-        }
+        const c = counts[best]! - 1;
+        head[best] = (hb + 1) & mask[best]!;
+        counts[best] = c;
+        busy &= ~((((c | -c) >>> 31) ^ 1) << best); // clears the bit when c = 0, without a branch
         waiting--;
         pairs[k * n + best]++;
         const K = t - bt;
         waitSum[best] += K;
-        hist[best * bins + (K < EXACT_ARRIVAL_BINS ? K | 0 : largeArrivalBin(K))]++;
+        hist[best * bins + (K < exactBins ? K | 0 : largeArrivalBin(K))]++;
       }
       t++;
     }
+    for (let j = 0; j < n; j++) headVal[j] = counts[j]! > 0 ? buf[off[j]! + head[j]!]! : Infinity;
     loop[0] = t;
     loop[1] = waiting;
     rng[0] = s0;
