@@ -4,10 +4,21 @@
  * standard error as well, so a figure that ignores something the file says is never silent.
  */
 import { UsageError } from '../errors.js';
-import { renderJson } from '../output/machine.js';
-import { renderDoc, type Block } from '../output/text/doc.js';
-import { wrap } from '../output/text/wrap.js';
+import type { Block } from '../output/text/doc.js';
 import type { CommandIO } from './io.js';
+
+/**
+ * The output modules (JSON, text documents, wrapping: string-width), imported when the command
+ * starts and awaited only after its work: their loading is left to the event loop's first turn,
+ * so a command that starts worker threads (`simulate`) loads them while the workers run instead
+ * of before it hands them their work.
+ */
+const outputModules = () =>
+  Promise.all([import('../output/machine.js'), import('../output/text/doc.js'), import('../output/text/wrap.js')]).then(([machine, doc, wrap]) => ({
+    renderJson: machine.renderJson,
+    renderDoc: doc.renderDoc,
+    wrap: wrap.wrap,
+  }));
 
 /** The output switches every command shares. */
 export interface OutputOptions {
@@ -37,8 +48,11 @@ export interface CommandSpec<I, R extends { readonly warnings: readonly string[]
 export async function execute<I, R extends { readonly warnings: readonly string[] }>(spec: CommandSpec<I, R>, out: OutputOptions, io: CommandIO): Promise<number> {
   if (out.json && out.csv) throw new UsageError('choose one of --json and --csv');
   if (out.csv && !spec.csv) throw new UsageError('this command has no CSV output; use --json');
+  const output = outputModules();
+  void output.catch(() => undefined); // awaited after the work
   const input = await spec.load(io);
   const record = await spec.run(input, io);
+  const { renderJson, renderDoc, wrap } = await output;
   if (out.json) io.out(spec.json ? spec.json(record, input) : renderJson(record));
   else if (out.csv) io.out(spec.csv!(record, input));
   else io.out(renderDoc(spec.text(record, input), { width: io.columns, wide: out.wide === true }));

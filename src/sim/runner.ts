@@ -1,7 +1,6 @@
 import { createPool, workerUrl } from '../workers/pool.js';
 import { streamStates } from './random.js';
 import type { ReplicationPlan, ReplicationRecord } from './record.js';
-import { runReplication } from './replication.js';
 import type { SimModel } from './sim-model.js';
 
 export interface RunnerOptions {
@@ -17,6 +16,23 @@ export interface RunnerOptions {
   readonly onProgress?: (arrivals: number) => void;
   /** Stops the run: replications not finished are dropped, the promise resolves with those done. */
   readonly signal?: AbortSignal;
+  /**
+   * This thread starts its own replications once this settles (rejected or not), the workers
+   * already running: the caller's work in this thread (modules to import, the exact column) then
+   * overlaps theirs. Without it, this thread starts as soon as the replication modules are loaded.
+   */
+  readonly startAfter?: Promise<unknown>;
+}
+
+/**
+ * The replication modules and the caller's `startAfter`. Imported here, after the workers have
+ * their work, not at start-up: this thread loads them while the workers simulate, and the event
+ * loop is free meanwhile (a module graph needs a turn of it per level, one per replication once
+ * this thread simulates).
+ */
+async function ownStart(options: RunnerOptions): Promise<typeof import('./replication.js').runReplication> {
+  const [{ runReplication }] = await Promise.all([import('./replication.js'), options.startAfter?.catch(() => undefined)]);
+  return runReplication;
 }
 
 /** The default worker script, or null when running from sources. */
@@ -49,6 +65,7 @@ export async function runReplications(
   const claims = new Int32Array(new SharedArrayBuffer(4 * count));
   const pool = createPool({ kind: 'simulate', model, plan, claims }, jobs, url, { withThisThread: true, depth: count });
   if (!pool) {
+    const runReplication = await ownStart(options);
     let done = 0;
     for (let i = 0; i < count && !signal?.aborted; i++) {
       sink(runReplication(model, plan, i, states[i]!, options.onProgress));
@@ -72,6 +89,7 @@ export async function runReplications(
       ),
     );
     workers.catch(() => (failed = true)); // seen between this thread's replications; rethrown below
+    const runReplication = await ownStart(options);
     for (let i = count - 1; i >= 0 && !failed && !signal?.aborted; i--) {
       if (Atomics.compareExchange(claims, i, 0, 1) !== 0) continue;
       sink(runReplication(model, plan, i, states[i]!, options.onProgress));

@@ -41,6 +41,8 @@ export interface SimulationOptions {
   readonly onProgress?: (done: number, total: number) => void;
   /** Stops the run: the result then holds the replications finished (`partial`). */
   readonly signal?: AbortSignal;
+  /** This thread joins the replications once this settles (see RunnerOptions.startAfter). */
+  readonly startAfter?: Promise<unknown>;
 }
 
 export interface SimulationResult extends ReplicationSummary {
@@ -123,6 +125,7 @@ export async function simulate(original: CompiledModel, options: SimulationOptio
     {
       jobs,
       ...(options.signal ? { signal: options.signal } : {}),
+      ...(options.startAfter ? { startAfter: options.startAfter } : {}),
       ...(options.workerUrl === undefined ? {} : { workerUrl: options.workerUrl }),
       ...(onProgress
         ? {

@@ -2,15 +2,18 @@
  * `simulate`: replications of the matching system under a policy, with 95 % intervals, wait
  * percentiles and abandonment, and the exact FCFM value beside each estimate when the exact
  * evaluator can handle the design (patient items, FCFM, stable, not too large).
+ *
+ * The stability verdict and the exact evaluator are imported as the replications start
+ * (`analysis`), and this thread joins the replications once it has used them
+ * (`SimulationOptions.startAfter`): with worker threads their modules load and the exact column is
+ * computed here while the workers simulate, instead of delaying the workers' first replication
+ * (the serial start-up of `simulate --jobs 2`; bench/simulate.ts).
  */
 import { describeCertificate, EdgewiseError } from '../errors.js';
-import { evaluateExact } from '../exact/evaluate.js';
 import type { ExactResult } from '../exact/result.js';
 import type { PolicyName } from '../sim/policy.js';
 import { simulate, type SimulationOptions } from '../sim/simulate.js';
 import type { Estimate, WaitEstimate } from '../sim/summary.js';
-import { checkStability } from '../stability/check.js';
-import { certificateWithIds } from '../stability/certificate.js';
 import { recordBase, type ScenarioContext } from './context.js';
 import { certificateRecord, finite, pairIds, type CertificateRecord, type PairIds, type RecordBase, type Reference } from './records.js';
 import { demandNote } from './warnings.js';
@@ -81,7 +84,18 @@ export interface SimulateInput {
   readonly signal?: AbortSignal;
 }
 
-function stabilityOf(ctx: ScenarioContext, impatient: boolean): SimulateRecord['stability'] {
+/** The modules of the stability verdict and of the exact column, loaded on first use. */
+const analysis = async () => {
+  const [{ checkStability }, { certificateWithIds }, { evaluateExact }] = await Promise.all([
+    import('../stability/check.js'),
+    import('../stability/certificate.js'),
+    import('../exact/evaluate.js'),
+  ]);
+  return { checkStability, certificateWithIds, evaluateExact };
+};
+type Analysis = Awaited<ReturnType<typeof analysis>>;
+
+function stabilityOf(ctx: ScenarioContext, impatient: boolean, { checkStability, certificateWithIds }: Analysis): SimulateRecord['stability'] {
   try {
     const report = checkStability(ctx.model);
     if (report.stable) return { stable: true, certificate: null, note: null };
@@ -96,7 +110,7 @@ function stabilityOf(ctx: ScenarioContext, impatient: boolean): SimulateRecord['
   }
 }
 
-function exactOf(ctx: ScenarioContext, input: SimulateInput, impatient: boolean, stable: boolean | null): { exact?: ExactResult; reason: string | null } {
+function exactOf(ctx: ScenarioContext, input: SimulateInput, impatient: boolean, stable: boolean | null, { evaluateExact }: Analysis): { exact?: ExactResult; reason: string | null } {
   if (input.policy !== 'fcfm') return { reason: 'exact values exist for FCFM only' };
   if (impatient) return { reason: 'exact values assume patient items' };
   if (stable === false) return { reason: 'the design is unstable' };
@@ -126,6 +140,8 @@ export async function simulateUseCase(ctx: ScenarioContext, input: SimulateInput
   const model = ctx.model;
   const patience = ctx.scenario.classes.map((c) => c.patience ?? Infinity);
   const impatient = patience.some((p) => Number.isFinite(p));
+  // imported while the workers already simulate; this thread joins them once it has used these
+  const modules = analysis();
   const options: SimulationOptions = {
     policy: input.policy,
     ...(input.ranking ? { priority: input.ranking } : {}),
@@ -139,15 +155,18 @@ export async function simulateUseCase(ctx: ScenarioContext, input: SimulateInput
     timed: input.timed === true,
     ...(input.onProgress ? { onProgress: input.onProgress } : {}),
     ...(input.signal ? { signal: input.signal } : {}),
+    startAfter: modules,
   };
   // the replications start first: on worker threads (--jobs 2 and more), the stability verdict and
   // the exact FCFM column are computed in this thread while they run instead of before them
   const running = simulate(model, options);
+  void running.catch(() => undefined); // awaited below, after the imports: not an unhandled rejection meanwhile
   let stability: SimulateRecord['stability'];
   let exact: ReturnType<typeof exactOf>;
   try {
-    stability = stabilityOf(ctx, impatient);
-    exact = exactOf(ctx, input, impatient, stability.stable);
+    const loaded = await modules;
+    stability = stabilityOf(ctx, impatient, loaded);
+    exact = exactOf(ctx, input, impatient, stability.stable, loaded);
   } catch (e) {
     await running.catch(() => undefined);
     throw e;

@@ -6,7 +6,6 @@
 import { availableParallelism } from 'node:os';
 import { UsageError } from '../../errors.js';
 import { readAsciiIds } from '../../output/ascii-pairs.js';
-import { simulateText } from '../../output/text/simulate.js';
 import { isPolicyName, POLICIES } from '../../sim/policy.js';
 import { simulateUseCase } from '../../usecases/simulate.js';
 import { execute, type OutputOptions } from '../command.js';
@@ -37,6 +36,7 @@ export interface SimulateOptions extends ContextFlags, OutputOptions {
 export const EXACT_COLUMN_MAX_SETS = 1_000_000;
 
 export function simulateCommand(opts: SimulateOptions, io: CommandIO): Promise<number> {
+  let simulateText: typeof import('../../output/text/simulate.js').simulateText | undefined;
   const bar = progressBar(io, 'simulating [{bar}] {percentage}% | {value}/{total} arrivals | eta {eta_formatted}');
   return execute(
     {
@@ -64,13 +64,18 @@ export function simulateCommand(opts: SimulateOptions, io: CommandIO): Promise<n
         return { ctx: loadContext(opts, io.cwd), input };
       },
       run: async ({ ctx, input }) => {
+        // the text renderer loads while the replications run (see src/cli/command.ts)
+        const renderer = opts.json ? undefined : import('../../output/text/simulate.js');
+        void renderer?.catch(() => undefined);
         try {
-          return await simulateUseCase(ctx, input);
+          const record = await simulateUseCase(ctx, input);
+          if (renderer) simulateText = (await renderer).simulateText;
+          return record;
         } finally {
           bar.stop();
         }
       },
-      text: (r) => simulateText(r, opts.waitUnit ? { waitUnit: opts.waitUnit } : {}),
+      text: (r) => simulateText!(r, opts.waitUnit ? { waitUnit: opts.waitUnit } : {}),
       exitCode: (r) => (r.partial ? 130 : 0),
     },
     opts,
