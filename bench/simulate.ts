@@ -136,6 +136,7 @@ function againstC(dir: string, designs: Array<[string, CompiledModel]>): void {
     const loopC: number[] = [];
     const procOurs: number[] = [];
     const procC: number[] = [];
+    const fixed: number[] = [];
     const loads: string[] = [];
     for (let r = 0; r < ROUNDS; r++) {
       loads.push(load());
@@ -144,7 +145,10 @@ function againstC(dir: string, designs: Array<[string, CompiledModel]>): void {
       loopC.push(cl.arrivals / cl.cpuSeconds);
       loopOurs.push(ol.arrivals / ol.cpuSeconds);
       const cp = timeProcess(c.path, [text, String(PROCESS_ARRIVALS), '1']);
-      const op = timeProcess(process.execPath, [cli.path, 'simulate', json, '--arrivals', String(PROCESS_ARRIVALS), '--warmup', '0', '--replications', '1', '--jobs', '1', '--json']);
+      const cliArgs = (arrivals: number): string[] => [cli.path, 'simulate', json, '--arrivals', String(arrivals), '--warmup', '0', '--replications', '1', '--jobs', '1', '--json'];
+      const op = timeProcess(process.execPath, cliArgs(PROCESS_ARRIVALS));
+      const small = timeProcess(process.execPath, cliArgs(1000)); // what does not grow with the arrivals
+      fixed.push(small.cpu ?? small.wall);
       if (cp.cpu === undefined || op.cpu === undefined) {
         procC.push(PROCESS_ARRIVALS / cp.wall);
         procOurs.push(PROCESS_ARRIVALS / op.wall);
@@ -157,7 +161,8 @@ function againstC(dir: string, designs: Array<[string, CompiledModel]>): void {
     const procRatio = procOurs.map((x, i) => x / procC[i]!);
     log(
       `  ${name.padEnd(22)} loop: edgewise ${M(median(loopOurs))} M arrivals/CPU s, C ${M(median(loopC))} M: ×${median(loopRatio).toFixed(2)} (${range(loopRatio)}); ` +
-        `process: edgewise ${M(median(procOurs))} M, C ${M(median(procC))} M: ×${median(procRatio).toFixed(2)} (${range(procRatio)})  load ${loads.join(', ')}`,
+        `process: edgewise ${M(median(procOurs))} M, C ${M(median(procC))} M: ×${median(procRatio).toFixed(2)} (${range(procRatio)}), ` +
+        `of which ${median(fixed).toFixed(2)} s do not grow with the arrivals (the same command on 1,000)  load ${loads.join(', ')}`,
     );
   }
 }

@@ -178,7 +178,8 @@ export class ChainEngine {
    * inside its loop. A function called often is optimised whole between calls; one long loop is
    * instead compiled on the stack with the feedback of its first iterations, and that code
    * (measured on Node 20) deoptimised at every exit and re-entered from the interpreter at every
-   * run(), about 0.56 × C on the 25-class cycle against 0.67 × now (npm run bench -- simulate).
+   * run(), about 0.56 × C on the 25-class cycle against 0.67 × as kernels (both under tsx; the
+   * built kernels now about 0.86 ×, npm run bench -- simulate).
    * A kernel stops before an arrival that must wait in a full ring (its random draw not yet taken),
    * the ring is grown here and the kernel resumes with that same arrival; it stops after the
    * arrival that puts one item too many in waiting, and the cap error is thrown here. Same draws,
