@@ -217,7 +217,10 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
   const warnings = [
     ...(input.score === undefined || input.score === 'exact' ? exactWarnings(ctx, 'The figures of every design') : scoringWarnings(ctx, input.score, rec, simulatedFront)),
     ...(p.hasValues ? valueWarnings(ctx) : []),
-    rec.partial ? 'interrupted: the Pareto set is what the search had found so far; designs not yet checked for harmful paid compatibilities may be in it, and no verdicts were computed' : null,
+    rec.partial
+      ? 'interrupted: the Pareto set is what the search had found so far; designs not yet checked for harmful paid compatibilities may be in it, and no verdicts were computed' +
+        (front.some((d) => d.stable && d.wait === null) ? "; designs scored exactly show the search's total backlog only (their waits per class would need a full evaluation of each)" : '')
+      : null,
     ...limitWarnings(ctx, rec),
     rec.designLimit !== undefined
       ? `the search stopped at its limit of ${rec.designLimit} designs scored (--max-designs): designs it did not reach may be better, and designs not yet checked for harmful paid compatibilities may be in the Pareto set`

@@ -8,6 +8,9 @@ import { paretoLocalSearch } from '../../src/design/search/local-search.js';
 import { seededRandom } from '../../src/random.js';
 import { randomProblem } from '../helpers/design-problems.js';
 import { Rng } from '../helpers/random.js';
+import { evaluateBacklog } from '../../src/exact/evaluate.js';
+import { compileGraph } from '../../src/model/compile.js';
+import { designPairs } from '../../src/design/space/problem.js';
 
 // The limit of designs a search may score (--max-designs): the count is a hard cap, a cut round
 // and a limit the search does not reach changes nothing (the search without a limit is checked
@@ -75,5 +78,32 @@ describe('the search limit of designs scored', () => {
     // the small problems of these tests never reach it: the search runs to its end
     const full = await recommend(problem(3), { workerUrl: null });
     expect(full.designLimit).toBeUndefined();
+  });
+});
+
+describe('an interrupted exact search', () => {
+  // reference: the exact recursion run afresh on each returned design (evaluateBacklog)
+  it('returns the search figures of the designs it scored, exact, without per-class waits', async () => {
+    const p = problem(4);
+    const controller = new AbortController();
+    let seen = 0;
+    const r = await recommend(p, {
+      workerUrl: null,
+      signal: controller.signal,
+      onProgress: (x) => {
+        seen = x.scored;
+        if (x.phase === 'search' && x.scored > 5) controller.abort();
+      },
+    });
+    expect(seen).toBeGreaterThan(0);
+    expect(r.partial).toBe(true);
+    expect(r.pareto.length).toBeGreaterThan(0);
+    for (const d of r.pareto) {
+      expect(d.stable).toBe(true);
+      const exact = evaluateBacklog(compileGraph(p.ids, p.rates, designPairs(p, d.design))).backlogTotal;
+      expect(d.backlogTotal).toBeCloseTo(exact, 9);
+      expect(d.wait).toBeNull();
+      expect(Number.isNaN(d.maxWait)).toBe(true);
+    }
   });
 });

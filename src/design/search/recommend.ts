@@ -336,6 +336,38 @@ export function detailsOfScore(problem: DesignProblem, objective: ObjectiveName,
   };
 }
 
+/**
+ * Details of a design from its search record (an interrupted exact run): the totals the search
+ * computed and the stability LP's margins; per-class backlogs and waits only where the record has
+ * them (absent: null, and NaN for the largest wait).
+ */
+function detailsOfRecord(problem: DesignProblem, r: DesignRecord): DesignDetails {
+  const { added, removed } = designChanges(problem, r.design);
+  const base = { design: r.design, key: r.key, cost: r.cost, added, removed };
+  if (!r.stable) {
+    return { ...base, stable: false, objective: NaN, backlogTotal: NaN, valueRate: NaN, backlog: null, wait: null, maxWait: NaN, minEdgeFlow: NaN, bottleneckSlack: NaN, independentSets: 0 };
+  }
+  const report = checkStability(compileGraph(problem.ids, problem.rates, designPairs(problem, r.design)));
+  let minEdgeFlow = Infinity;
+  for (const c of report.components) minEdgeFlow = Math.min(minEdgeFlow, c.minEdgeFlow ?? Infinity);
+  const wait = r.backlog ? Float64Array.from(r.backlog, (b, k) => b / problem.rates[k]!) : null;
+  let maxWait = wait ? 0 : NaN;
+  if (wait) for (let k = 0; k < problem.n; k++) maxWait = Math.max(maxWait, wait[k]!);
+  return {
+    ...base,
+    stable: true,
+    objective: r.objective,
+    backlogTotal: r.backlogTotal,
+    valueRate: r.valueRate,
+    backlog: r.backlog,
+    wait,
+    maxWait,
+    minEdgeFlow,
+    bottleneckSlack: report.bottleneck?.slack ?? NaN,
+    independentSets: r.independentSets,
+  };
+}
+
 /** The paired comparisons of a front (cheapest first) under common random numbers. */
 function withComparisons(front: DesignDetails[]): DesignDetails[] {
   return front.map((d, i) => {
@@ -545,12 +577,28 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
     for (const r of evaluator.records()) if (r.method === 'simulation') simulated++;
     let details: (design: Uint8Array) => DesignDetails = (design) => designDetails(problem, objective, design, options.maxSets);
     let allocation: AllocationRecord | undefined;
+    /** The evaluator of the baselines when it is not the search's (an interrupted run). */
+    let laterRecords: DesignEvaluator | undefined;
+    /** Interrupted: a design the search scored exactly keeps the search's figures (no full evaluation). */
+    const exactRecord = (key: string): DesignRecord | undefined => {
+      if (!partial) return undefined;
+      const r = evaluator.get(key) ?? laterRecords?.get(key);
+      return r && r.method !== 'simulation' ? r : undefined;
+    };
+    if (partial) {
+      // interrupted: the figures the search has, without a full evaluation of each design (at tens
+      // of classes each costs seconds); the per-class waits are then left out, and said so
+      details = (design) => {
+        const r = exactRecord(designKey(design));
+        return r ? detailsOfRecord(problem, r) : designDetails(problem, objective, design, options.maxSets);
+      };
+    }
     // a simulated search also re-scores the designs just behind its front (within the short run's
     // noise): the longer run may show one of them ahead of the design that beat it
     const contenders = finalSpec && simulatedSearch && !partial ? [...front, ...nearFront(problem, evaluator, front, harmful)] : front;
     if (finalSpec) {
       // one batch on the pool: the front (and the designs near it), the baselines and today's design, in input order
-      const batch = [...contenders.map((r) => r.design), ...base.map((b) => b.design), Uint8Array.from(problem.today)];
+      const batch = [...contenders.map((r) => r.design), ...base.map((b) => b.design), Uint8Array.from(problem.today)].filter((d) => !exactRecord(designKey(d)));
       // interrupted: a quick re-score in this thread (the search's length, 5 replications) so the
       // partial answer comes within seconds; the figures keep their intervals
       const quick = { ...finalSpec, sim: { ...finalSpec.sim!, arrivals: spec.sim!.arrivals, warmup: spec.sim!.warmup, replications: 5 } };
@@ -584,7 +632,11 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
         allocation = done.record;
       }
       const finalScores = byKey;
-      details = (design) => detailsOfScore(problem, objective, design, finalScores.get(designKey(design))!, options.maxSets);
+      const withoutScore = details;
+      details = (design) => {
+        const sc = finalScores.get(designKey(design));
+        return sc ? detailsOfScore(problem, objective, design, sc, options.maxSets) : withoutScore(design);
+      };
     }
     const limited = hasAbandonmentLimits(problem);
     const rescoredAll = contenders.map((r) => details(r.design));
@@ -607,7 +659,12 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
     // Baselines: scored (with the neighbours their penalty needs) outside the search's count; an
     // interrupted run scores them in this thread, without the workers it has stopped.
     const after = partial ? new DesignEvaluator(problem, objective, inThreadScorer(spec), undefined, 'never') : evaluator;
-    const baseRecords = await after.evaluate(base.map((b) => b.design));
+    // interrupted: the baselines the search had scored (they are among its seeds) are not scored again
+    const known = base.map((b) => (partial ? evaluator.get(designKey(b.design)) : undefined));
+    const missing = await after.evaluate(base.flatMap((b, i) => (known[i] ? [] : [b.design])));
+    let m = 0;
+    const baseRecords = known.map((r) => r ?? missing[m++]!);
+    laterRecords = after;
     const neighbours = penaltyBatch(problem, baseRecords);
     if (!partial) await after.evaluate(neighbours.designs, neighbours.origins);
     const results: BaselineResult[] = base.map((b, i) => {
