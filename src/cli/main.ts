@@ -4,8 +4,9 @@
  * in src/cli/commands/<name>.ts, imported lazily (a command loads only what it uses), and
  * src/cli/exit.ts turns errors into exit codes.
  *
- * Interrupts: the first SIGINT or SIGTERM aborts the run's signal — `recommend` and `simulate` stop
- * their workers and print what they found so far, marked partial, then exit 130; other commands
+ * Interrupts: the first SIGINT or SIGTERM aborts the run's signal — `recommend`, `simulate` and
+ * `report` stop their workers and print (or write) what they found so far, marked partial, then exit
+ * 130; other commands
  * exit 130 at once. A second signal exits at once. Every exit path gives the terminal back (cursor
  * shown, line wrap on).
  */
@@ -16,7 +17,7 @@ import { restoreTerminal } from './progress.js';
 
 const controller = new AbortController();
 /** Commands that stop gracefully on the first signal (they give partial results). */
-const GRACEFUL = new Set(['recommend', 'simulate']);
+const GRACEFUL = new Set(['recommend', 'simulate', 'report']);
 let running = '';
 let signals = 0;
 const onSignal = (): void => {

@@ -41,7 +41,7 @@ export function verdicts(r: ReportRecord, name: Namer): string[] {
   const d = r.decision;
   const t = d?.today;
   if (r.todayStable && t && t.backlog !== null) {
-    let s = `Today's design keeps up with demand: on average ${num(t.backlog)} ${items} wait, and the longest mean wait is ${num(t.maxWait!)} ${plural(unit)} (${name(t.maxWaitClass!)}).`;
+    let s = `Today's design keeps up with demand: on average ${num(t.backlog)} ${items} wait${t.maxWait !== null && t.maxWaitClass !== null ? `, and the longest mean wait is ${num(t.maxWait)} ${plural(unit)} (${name(t.maxWaitClass)})` : ''}.`;
     const b = r.bottleneck;
     if (b) {
       s += ` The tightest group is ${listWords(b.set.map(name))}: it brings ${num(b.demand)} per ${unit} and only ${listWords(b.neighbours.map(name))} can serve it, with ${num(b.capacity)} per ${unit} (${pct(b.spareCapacity / b.capacity, 2)} to spare).`;
@@ -61,17 +61,22 @@ export function verdicts(r: ReportRecord, name: Namer): string[] {
     return out;
   }
   const rec = d.recommended;
-  const budget = r.budget === null ? 'Without a budget limit' : `Within the budget of ${money(r.budget, r.costUnit)}`;
+  const within = r.budget === null ? 'Without a budget limit' : `Within the budget of ${money(r.budget, r.costUnit)}`;
+  // an interrupted search advises only on what it scored, and says so
+  const budget = d.partial ? `${within}, the best design scored before the interruption` : within;
   if (rec.added.length + rec.removed.length > 0) {
     const cost = rec.cost >= 0 ? `costs ${money(rec.cost, r.costUnit)}` : `saves ${money(-rec.cost, r.costUnit)}`;
     if (t && t.backlog !== null && rec.backlog !== null) {
+      const longest = t.maxWait !== null && rec.maxWait !== null ? `, and the longest mean wait from ${num(t.maxWait)} to ${num(rec.maxWait)} ${plural(unit)}` : '';
       out.push(
-        `${budget}: ${changeWords(rec.added, rec.removed, name)}. It ${cost}; waiting goes from ${num(t.backlog)} to ${num(rec.backlog)} ${items} (${signedPct((rec.backlog - t.backlog) / t.backlog)}), and the longest mean wait from ${num(t.maxWait!)} to ${num(rec.maxWait!)} ${plural(unit)}.`,
+        `${budget}: ${changeWords(rec.added, rec.removed, name)}. It ${cost}; waiting goes from ${num(t.backlog)} to ${num(rec.backlog)} ${items} (${signedPct((rec.backlog - t.backlog) / t.backlog)})${longest}.`,
       );
     } else {
       out.push(`${budget}: ${changeWords(rec.added, rec.removed, name)}. It ${cost} and makes the design stable, with ${num(rec.backlog ?? NaN)} ${items} waiting on average.`);
     }
-  } else out.push(`${budget}, no change lowers waiting: keep today's design.`);
+  } else if (d.partial) {
+    out.push(`${within}, none of the designs scored before the interruption lowers waiting; the search did not finish, so a better design may exist.`);
+  } else out.push(`${within}, no change lowers waiting: keep today's design.`);
 
   const against = d.verdicts.filter((v) => v.against === 'recommended');
   const base = rec.backlog ?? NaN;

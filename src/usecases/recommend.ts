@@ -135,7 +135,7 @@ export function decisionOf(ctx: ScenarioContext, rec: Recommendation, input: Rec
   return { decision, pareto: mergedFront(ctx, rec.pareto, same ? undefined : recommended), recommended };
 }
 
-export function decisionPart(ctx: ScenarioContext, input: RecommendInput, parts: ReturnType<typeof decisionOf>, todayDetails: DesignDetails): DecisionPart {
+export function decisionPart(ctx: ScenarioContext, input: RecommendInput, parts: ReturnType<typeof decisionOf>, todayDetails: DesignDetails, partial = false): DecisionPart {
   const p = ctx.problem;
   const d = parts.decision;
   return {
@@ -148,7 +148,7 @@ export function decisionPart(ctx: ScenarioContext, input: RecommendInput, parts:
     recommended: {
       ...designFigures(p, parts.recommended, input.objective),
       improvements: d?.improvements ?? 0,
-      why: `the ${objectiveBetter(input.objective) === 'higher' ? 'highest' : 'lowest'} ${objectiveLabel(input.objective)} within the ${Number.isFinite(p.budget) ? 'budget' : 'candidates'}${d && d.improvements > 0 ? `, after ${d.improvements} single-change improvement${d.improvements === 1 ? '' : 's'} of the search's pick` : ''}`,
+      why: `the ${objectiveBetter(input.objective) === 'higher' ? 'highest' : 'lowest'} ${objectiveLabel(input.objective)} within the ${Number.isFinite(p.budget) ? 'budget' : 'candidates'}${partial ? ' among the designs scored before the interruption' : ''}${d && d.improvements > 0 ? `, after ${d.improvements} single-change improvement${d.improvements === 1 ? '' : 's'} of the search's pick` : ''}`,
     },
     today: designFigures(p, todayDetails, input.objective),
     verdicts: d ? d.verdicts.map((v) => verdictRecord(p, v, input.objective)) : [],
@@ -208,7 +208,7 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
   }
   const parts = decisionOf(ctx, rec, input);
   const todayDetails = rec.today ?? designDetails(p, input.objective, Uint8Array.from(p.today), input.maxSets);
-  const decision = decisionPart(ctx, input, parts, todayDetails);
+  const decision = decisionPart(ctx, input, parts, todayDetails, rec.partial);
   const recommendedKey = parts.recommended.key;
   const front = parts.pareto;
   const pair = (j: number): PairIds => pairIds(p, p.toggles[j]!.a, p.toggles[j]!.b);

@@ -5,7 +5,7 @@
  * under each demand variant, simulated figures with abandonment when the file gives patience, and
  * the inputs. `report --json` prints the decision part.
  */
-import { EdgewiseError, InfeasibleDesignError, TooLargeError } from '../errors.js';
+import { EdgewiseError, InfeasibleDesignError, InterruptedError, TooLargeError } from '../errors.js';
 import { pairKey } from '../model/scenario.js';
 import type { ObjectiveName } from '../design/space/objective.js';
 import { impatientClasses, limitsNotComparedWarning } from './warnings.js';
@@ -82,6 +82,8 @@ export interface ReportRecord extends RecordBase, ScoringRecord {
   readonly simulated: SimulatedSummary[];
   readonly inputs: InputsRecord;
   readonly notes: string[];
+  /** True when the report was interrupted: sections not yet computed are left out (the notes say which). */
+  readonly partial: boolean;
 }
 
 export interface ReportInput extends Omit<ScoringInput, 'jobs' | 'seed'> {
@@ -92,6 +94,11 @@ export interface ReportInput extends Omit<ScoringInput, 'jobs' | 'seed'> {
   readonly maxDesigns?: number;
   readonly sweepSteps?: number;
   readonly onPhase?: (phase: string) => void;
+  /**
+   * Stops the work (SIGINT): the recommender gives what it found so far, and the sections not yet
+   * computed are left out with a note; the record is then `partial`.
+   */
+  readonly signal?: AbortSignal;
   /** Arrivals per replication of the simulated figures (patience). */
   readonly simulationArrivals?: number;
 }
@@ -196,17 +203,22 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
       ...(input.maxSets === undefined ? {} : { maxSets: input.maxSets }),
       ...(maxDesigns === undefined ? {} : { maxDesigns }),
       ...(input.jobs > 1 ? {} : { workerUrl: null }),
+      ...(input.signal ? { signal: input.signal } : {}),
     } as RecommendInput);
   } catch (e) {
     if (e instanceof InfeasibleDesignError) noDecision = e.message;
     else if (e instanceof TooLargeError) noDecision = `the recommender could not evaluate every design: ${e.message}`;
+    else if (e instanceof InterruptedError) noDecision = 'interrupted before the recommender had scored a design within the budget';
     else throw e;
   }
 
+  const stopped = (): boolean => input.signal?.aborted === true;
+  const skipped: string[] = [];
   phase('designs');
   const designs: ShownDesign[] = [];
   const show = async (role: ShownDesign['role'], name: string, figures: DesignFigures): Promise<void> => {
-    designs.push({ role, name, figures, underVariants: await outcomesUnderWith(scorer, ctx.today, figures.added, figures.removed, ctx.variants) });
+    if (stopped() && ctx.variants.length > 0 && !skipped.includes('the designs under the demand variants')) skipped.push('the designs under the demand variants');
+    designs.push({ role, name, figures, underVariants: stopped() ? [] : await outcomesUnderWith(scorer, ctx.today, figures.added, figures.removed, ctx.variants) });
   };
   if (decision) {
     await show('today', "today's design", decision.today);
@@ -225,7 +237,8 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
   phase('sweep');
   let sweep: SweepRecord | null = null;
   let sweepAddition: ReportRecord['sweepAddition'] = null;
-  if (stability.stable && stability.bottleneck) {
+  if (stopped()) skipped.push('the load sweep');
+  else if (stability.stable && stability.bottleneck) {
     const grow = Array.from(stability.bottleneck.set, (k) => ctx.today.ids[k]!);
     const rec = decision?.recommended;
     const variants: Array<{ add: PairIds[]; remove: PairIds[] }> = [];
@@ -258,7 +271,8 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
 
   phase('simulate');
   const simulated: SimulatedSummary[] = [];
-  if (ctx.patience) {
+  if (ctx.patience && stopped()) skipped.push('the simulated figures with patience');
+  else if (ctx.patience) {
     const run = async (role: 'today' | 'recommended', c: ScenarioContext): Promise<void> => {
       const r = await simulateUseCase(c, { policy: 'fcfm', jobs: input.jobs, seed: input.seed, replications: 4, arrivals: input.simulationArrivals ?? 400_000, exactMaxSets: 1 });
       simulated.push(simulatedSummary(role, r));
@@ -298,9 +312,16 @@ export async function reportUseCase(ctx: ScenarioContext, input: ReportInput): P
       `Simulated figures (seed ${input.seed}, the same arrival stream for every design): ${simulatedParts.join('; ')}. Each simulated figure has a 95 % interval (in the JSON record; ${plan.replications} replications of ${plan.arrivals.toLocaleString('en-US')} arrivals${more}), and two designs are called different only when their paired difference is significant.${ctx.patience ? " They include the file's patience: items giving up (abandonment)." : ''}`,
     );
   }
+  const partial = stopped() || decision?.partial === true;
+  if (partial) {
+    notes.unshift(
+      `Interrupted: this report shows what was computed before the stop${decision?.partial ? ' (the Pareto set is what the search had found so far)' : ''}${skipped.length > 0 ? `; not computed: ${skipped.join(', ')}` : ''}.`,
+    );
+  }
   return {
     ...recordBase(ctx, 'report', [...new Set(warnings)]),
     ...scored,
+    partial,
     description: ctx.description,
     costUnit: ctx.costUnit,
     itemWord: ctx.itemWord,
@@ -340,6 +361,7 @@ export function decisionRecord(r: ReportRecord) {
     today: d ? d.today : null,
     verdicts: d ? d.verdicts : [],
     noDecision: r.noDecision,
+    partial: r.partial,
     instability: r.todayInstability,
     repairs: r.todayInstability ? r.todayInstability.repairs : null,
   };

@@ -5,6 +5,13 @@ import { parseHTML } from 'linkedom';
 import { describe, expect, it } from 'vitest';
 import { reportCommand } from '../../src/cli/commands/report.js';
 import { runCommand } from '../helpers/cli.js';
+import { memoryIO } from '../../src/cli/io.js';
+import { runWithExitCode } from '../../src/cli/exit.js';
+import { parseScenario } from '../../src/model/validate.js';
+import { scenarioContext } from '../../src/usecases/context.js';
+import { reportUseCase } from '../../src/usecases/report.js';
+import { renderReport } from '../../src/html/report-html.js';
+import { namerOf, verdicts } from '../../src/html/verdicts.js';
 
 // `edgewise report FILE -o report.html`. Reference values derived by hand (tests/cli/compare.test.ts
 // has the steps): K4 minus the edge a ↔ b with rates 0.2, 0.2, 0.4, 0.2 has mean backlog 7/3, and
@@ -52,6 +59,31 @@ describe('report command', () => {
     expect(rec.notes.join(' ')).toMatch(/Simulated figures \(seed 2/);
     // every note of the record is on the page
     for (const n of rec.notes as string[]) expect(text).toContain(n.replace(/\s+/g, ' ').slice(0, 60));
+  }, 120_000);
+
+  it('interrupted (the signal aborted): the page is still written, marked partial, with what was not computed; exit 130', async () => {
+    const controller = new AbortController();
+    controller.abort();
+    const scenario = parseScenario(readFileSync(join(dir, 'pit.json'), 'utf8'), 'pit.json');
+    const r = await reportUseCase(scenarioContext(scenario, { source: 'pit.json' }), { jobs: 1, seed: 1, signal: controller.signal });
+    expect(r.partial).toBe(true);
+    expect(r.sweep).toBeNull();
+    expect(r.notes[0]).toMatch(/^Interrupted: .*not computed: the load sweep/);
+    const { document } = parseHTML(renderReport(r, { generator: 'test' }));
+    expect(document.body.textContent!.replace(/\s+/g, ' ')).toContain('Interrupted: this report shows what was computed before the stop');
+    // the command: the page is written and the exit code says it was interrupted
+    const io = memoryIO(dir, 120, controller.signal);
+    const code = await runWithExitCode(io, () => reportCommand({ file: 'pit.json', output: 'stopped.html' }, io));
+    expect(code).toBe(130);
+    expect(readFileSync(join(dir, 'stopped.html'), 'utf8')).toContain('Interrupted');
+    expect(io.stdout()).toMatch(/interrupted: what was computed so far/);
+    // a decision from an interrupted search advises only on what it scored, and says so
+    const full = await reportUseCase(scenarioContext(scenario, { source: 'pit.json' }), { jobs: 1, seed: 1 });
+    expect(full.partial).toBe(false);
+    const cut = { ...full, decision: { ...full.decision!, partial: true } };
+    const words = verdicts(cut, namerOf(cut)).join(' ');
+    expect(words).toContain('scored before the interruption');
+    expect(words).not.toContain("keep today's design");
   }, 120_000);
 
   it('--budget 0 overrides the scenario: nothing is affordable, keep today', async () => {

@@ -31,14 +31,22 @@ export function reportCommand(opts: ReportOptions, io: CommandIO): Promise<numbe
         return { ctx: loadContext(opts, io.cwd), scoring: { ...scoring, ...(maxDesigns === undefined ? {} : { maxDesigns }) } };
       },
       run: async ({ ctx, scoring }, io) => {
-        const r = await reportUseCase(ctx, { ...scoring, ...(io.isTTY ? { onPhase: (p: string) => io.err(`edgewise report: ${p}…\n`) } : {}) });
+        const r = await reportUseCase(ctx, {
+          ...scoring,
+          ...(io.isTTY ? { onPhase: (p: string) => io.err(`edgewise report: ${p}…\n`) } : {}),
+          ...(io.signal ? { signal: io.signal } : {}),
+        });
         const page = renderReport(r, { generator: 'edgewise 0.2.0' });
         writeFileAtomic(target, page);
         size = Buffer.byteLength(page);
         return r;
       },
       json: (r) => renderJson(decisionRecord(r)),
-      text: (r) => [title(`wrote ${opts.output ?? ''} (${Math.max(1, Math.round(size / 1024))} KB)`), para(verdicts(r, namerOf(r))[0] ?? '')],
+      exitCode: (r) => (r.partial ? 130 : 0),
+      text: (r) => [
+        title(`wrote ${opts.output ?? ''} (${Math.max(1, Math.round(size / 1024))} KB)${r.partial ? ' — interrupted: what was computed so far' : ''}`),
+        para(verdicts(r, namerOf(r))[0] ?? ''),
+      ],
     },
     opts,
     io,

@@ -702,7 +702,8 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       harmfulRefused: harmful.size,
       scoring: scorer.mode,
       partial,
-      today: details(Uint8Array.from(problem.today)),
+      // today's design in full even when interrupted: its waits are what every verdict starts from
+      today: exactRecord(designKey(problem.today)) ? designDetails(problem, objective, Uint8Array.from(problem.today), options.maxSets) : details(Uint8Array.from(problem.today)),
       simulated,
       ...(designLimit === undefined ? {} : { designLimit }),
       ...(limited ? { limitsChecked, overLimitAfterRescore } : {}),
