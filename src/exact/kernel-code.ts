@@ -129,6 +129,26 @@ function loadWalk(f: Fn): Code[] {
   return [set('node', hdr(A.node)), set('mu', hdr(A.mu)), set('psi', hdr(A.psi)), set('d', hdr(A.depth))];
 }
 
+/**
+ * One step of a depth-first walk in the lowest-child order, inside block 'exit' / loop 'walk': stop
+ * at the end of the walk or of the step budget, climb when depth d has no child left, otherwise
+ * take the lowest child c left at d (dropped from todo), with below = the bits under c and p the
+ * set at depth d.
+ */
+function lowestChild(f: Fn): Code[] {
+  const { get, set } = f;
+  return [
+    brIf('exit', i32.lt_s(get('d'), i32.const(0))),
+    brIf('exit', i32.eqz(get('steps'))),
+    set('t', ld64(A.todo, get('d'))),
+    when(i64.eqz(get('t')), [dec(f, 'd'), br('walk')]),
+    set('c', low(get('t'))),
+    st64(A.todo, get('d'), dropLow(get('t'))),
+    set('below', i64.sub(bit(get('c')), i64.const(1))),
+    set('p', ld32(A.idx, get('d'))),
+  ];
+}
+
 /** child(s, c) of trie.ts with below = the bits under c: first[s] + popcount(cand(s) & below). */
 function child(f: Fn, s: Code): Code {
   const { get, set } = f;
@@ -187,15 +207,7 @@ function prefixKernel(): Fn {
     set('tol', f64.load(i32.const(A.tol))),
     block('exit',
       loop('walk',
-        brIf('exit', i32.lt_s(get('d'), i32.const(0))),
-        brIf('exit', i32.eqz(get('steps'))),
-        set('t', ld64(A.todo, get('d'))),
-        when(i64.eqz(get('t')), [dec(f, 'd'), br('walk')]),
-        // the lowest child left
-        set('c', low(get('t'))),
-        st64(A.todo, get('d'), dropLow(get('t'))),
-        set('below', i64.sub(bit(get('c')), i64.const(1))),
-        set('p', ld32(A.idx, get('d'))),
+        ...lowestChild(f),
         ...stepDown(f),
         st64(A.smask, get('e'), i64.or(ld64(A.smask, get('d')), bit(get('c')))),
         // Ψ(A) = Σ_{i∈A} λ_i Ψ(A∖i) / (μ(A) − r(A))
@@ -274,14 +286,7 @@ function overKernel(): Fn {
     set('tol', f64.load(i32.const(A.tol))),
     block('exit',
       loop('walk',
-        brIf('exit', i32.lt_s(get('d'), i32.const(0))),
-        brIf('exit', i32.eqz(get('steps'))),
-        set('t', ld64(A.todo, get('d'))),
-        when(i64.eqz(get('t')), [dec(f, 'd'), br('walk')]),
-        set('c', low(get('t'))),
-        st64(A.todo, get('d'), dropLow(get('t'))),
-        set('below', i64.sub(bit(get('c')), i64.const(1))),
-        set('p', ld32(A.idx, get('d'))),
+        ...lowestChild(f),
         set('e', i32.add(get('d'), i32.const(1))),
         set('s', child(f, get('p'))),
         st32(A.idx, get('e'), get('s')),
