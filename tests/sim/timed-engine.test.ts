@@ -9,6 +9,16 @@ import { studentQuantile } from '../../src/sim/student-t.js';
 import { DeadlineReference } from '../helpers/deadline-reference.js';
 import { expectInside, familyFactor } from './support/intervals.js';
 
+/** Class k's queue holds its live count of items in arrival order, and headVal is its oldest (Infinity when empty). */
+function expectInArrivalOrder(engine: TimedEngine, k: number): number[] {
+  const items = engine.queues.items(k);
+  expect(items.length).toBe(engine.counts[k]);
+  for (let p = 1; p < items.length; p++) expect(items[p]!).toBeGreaterThan(items[p - 1]!);
+  if (items.length > 0) expect(engine.headVal[k]).toBe(items[0]);
+  else expect(engine.headVal[k]).toBe(Infinity);
+  return items;
+}
+
 describe('impatience: one self-compatible class (closed form derived by hand)', () => {
   /*
    * Shift swaps within one team: rate λ, each waiting request gives up after an exponential time of
@@ -110,13 +120,7 @@ describe('impatience: two classes that only match each other (series derived by 
       if (engine.queues.span[0]! > engine.counts[0]!) lazy++;
       // compaction keeps the gone slots bounded by the live ones (plus a constant)
       expect(engine.queues.span[0]!).toBeLessThanOrEqual(2 * engine.counts[0]! + 16);
-      for (let k = 0; k < 2; k++) {
-        const items = engine.queues.items(k);
-        expect(items.length).toBe(engine.counts[k]);
-        for (let p = 1; p < items.length; p++) expect(items[p]!).toBeGreaterThan(items[p - 1]!);
-        if (items.length > 0) expect(engine.headVal[k]).toBe(items[0]);
-        else expect(engine.headVal[k]).toBe(Infinity);
-      }
+      for (let k = 0; k < 2; k++) expectInArrivalOrder(engine, k);
     }
     expect(lazy).toBeGreaterThan(10); // gone slots were really left in the rings
   });
@@ -134,11 +138,7 @@ describe('impatience: two classes that only match each other (series derived by 
     for (let i = 0; i < 50; i++) {
       engine.run(997);
       for (let k = 0; k < 2; k++) {
-        const items = engine.queues.items(k);
-        expect(items.length).toBe(engine.counts[k]);
-        for (let p = 1; p < items.length; p++) expect(items[p]!).toBeGreaterThan(items[p - 1]!);
-        if (items.length > 0) expect(engine.headVal[k]).toBe(items[0]);
-        else expect(engine.headVal[k]).toBe(Infinity);
+        const items = expectInArrivalOrder(engine, k);
         let expired = 0;
         for (let p = 0; p < items.length; p++) if (due(k, p) <= engine.clock) expired++;
         if (expired > 0) lazy++;
