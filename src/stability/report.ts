@@ -61,3 +61,10 @@ export interface StabilityReport {
    */
   readonly relativeSlack?: number;
 }
+
+/** The smallest flow on a compatibility over the components (each maximised by its edge-flow LP); Infinity when none has one. */
+export function minEdgeFlowOf(report: StabilityReport): number {
+  let m = Infinity;
+  for (const c of report.components) m = Math.min(m, c.minEdgeFlow ?? Infinity);
+  return m;
+}

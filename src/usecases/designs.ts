@@ -4,6 +4,7 @@
  */
 import type { DesignDetails } from '../design/search/recommend.js';
 import type { Verdict } from '../design/decision/decide.js';
+import { limitInside } from '../design/scoring/evaluator.js';
 import { designChanges, type DesignProblem } from '../design/space/problem.js';
 import { objectiveSign, type ObjectiveName } from '../design/space/objective.js';
 import { byClass, finite, pairIds, type PairIds } from './records.js';
@@ -89,7 +90,7 @@ export function abandonmentLimits(
     const limit = limits[k]!;
     if (Number.isNaN(limit)) continue;
     const ci: [number, number] | null = lo && hi && Number.isFinite(lo[k]!) && Number.isFinite(hi[k]!) ? [lo[k]!, hi[k]!] : null;
-    out.push({ class: ids[k]!, limit, share: share[k]!, shareCi95: ci, within: share[k]! <= limit, withinNoise: ci !== null && ci[0] <= limit && limit <= ci[1] && ci[0] < ci[1] });
+    out.push({ class: ids[k]!, limit, share: share[k]!, shareCi95: ci, within: share[k]! <= limit, withinNoise: ci !== null && limitInside(limit, ci[0], ci[1]) });
   }
   return out.length > 0 ? out : null;
 }

@@ -13,7 +13,7 @@ import { paretoFront } from '../design/space/pareto.js';
 import { changeCount } from '../design/space/problem.js';
 import { designDetails, NO_VALUES_MESSAGE, recommend, type DesignDetails, type Recommendation, type RecommendOptions } from '../design/search/recommend.js';
 import type { AllocationRecord } from '../design/search/allocation.js';
-import { overAbandonmentLimit } from '../design/scoring/evaluator.js';
+import { limitInside, overAbandonmentLimit } from '../design/scoring/evaluator.js';
 import type { ScenarioContext } from './context.js';
 import { recordBase } from './context.js';
 import { changePairs, designFigures, verdictRecord, type DesignFigures, type VerdictRecord } from './designs.js';
@@ -177,7 +177,7 @@ export function limitWarnings(ctx: ScenarioContext, rec: Recommendation): string
 }
 
 function straddles(limits: ArrayLike<number>, share: ArrayLike<number>, lo: ArrayLike<number>, hi: ArrayLike<number>): boolean {
-  for (let k = 0; k < limits.length; k++) if (!Number.isNaN(limits[k]!) && share[k]! <= limits[k]! && lo[k]! <= limits[k]! && limits[k]! <= hi[k]! && lo[k]! < hi[k]!) return true;
+  for (let k = 0; k < limits.length; k++) if (!Number.isNaN(limits[k]!) && share[k]! <= limits[k]! && limitInside(limits[k]!, lo[k]!, hi[k]!)) return true;
   return false;
 }
 

@@ -251,6 +251,11 @@ export class DesignEvaluator {
 }
 
 /** True when some class with a maxAbandonment has a (simulated) abandonment share above it. */
+/** True when a limit lies inside a non-empty interval [lo, hi]: the simulation cannot tell on which side the share is. */
+export function limitInside(limit: number, lo: number, hi: number): boolean {
+  return lo <= limit && limit <= hi && lo < hi;
+}
+
 export function overAbandonmentLimit(p: DesignProblem, share: ArrayLike<number> | undefined): boolean {
   const limit = p.maxAbandonment;
   if (!limit || !share) return false;

@@ -19,6 +19,7 @@
  * The rounds end when every question is resolved, every open design has `max` replications, or the
  * run is stopped (SIGINT: the figures so far are kept).
  */
+import { limitInside } from '../scoring/evaluator.js';
 import type { Score } from '../scoring/score.js';
 import type { PairedDifference } from '../scoring/sim-score.js';
 
@@ -88,7 +89,7 @@ export function limitInsideInterval(limits: ArrayLike<number> | undefined, lo: A
   if (!limits || !lo || !hi) return false;
   for (let k = 0; k < limits.length; k++) {
     const l = limits[k]!;
-    if (!Number.isNaN(l) && lo[k]! <= l && l <= hi[k]! && lo[k]! < hi[k]!) return true;
+    if (!Number.isNaN(l) && limitInside(l, lo[k]!, hi[k]!)) return true;
   }
   return false;
 }

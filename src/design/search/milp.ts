@@ -32,6 +32,7 @@
 import { SolverError } from '../../errors.js';
 import { compileGraph } from '../../model/compile.js';
 import { checkStability } from '../../stability/check.js';
+import { minEdgeFlowOf } from '../../stability/report.js';
 import { powerOfTwoScale } from '../../model/rate-scale.js';
 import { solveWithHighs } from '../../solvers/highs.js';
 import type { LinearProgram, LpConstraint, LpVariable } from '../../solvers/lp.js';
@@ -170,8 +171,7 @@ function stabilityCut(problem: DesignProblem, design: Uint8Array): { cut?: Toggl
   const model = compileGraph(problem.ids, problem.rates, designPairs(problem, design));
   const report = checkStability(model);
   if (report.stable) {
-    let minFlow = Infinity;
-    for (const c of report.components) minFlow = Math.min(minFlow, c.minEdgeFlow ?? Infinity);
+    const minFlow = minEdgeFlowOf(report);
     return { stable: true, minFlow };
   }
   const cut = relievingCut(problem, design, report.certificate!);
@@ -308,8 +308,7 @@ export function cheapestByCuts(problem: DesignProblem, maxNodes = CUT_SEARCH_NOD
     const model = compileGraph(problem.ids, problem.rates, designPairs(problem, node.design));
     const report = checkStability(model);
     if (report.stable) {
-      let minFlow = Infinity;
-      for (const c of report.components) minFlow = Math.min(minFlow, c.minEdgeFlow ?? Infinity);
+      const minFlow = minEdgeFlowOf(report);
       if (!(minFlow >= floor)) return undefined;
       return { design: node.design, cost: node.cost, minFlow, verifiedMinFlow: minFlow, proven: true, solves: 0 };
     }

@@ -23,6 +23,7 @@ import { compileGraph } from '../../model/compile.js';
 import { evaluateExact } from '../../exact/evaluate.js';
 import { valueRate as sumValue } from '../../model/values.js';
 import { checkStability } from '../../stability/check.js';
+import { minEdgeFlowOf } from '../../stability/report.js';
 import { seededRandom } from '../../random.js';
 import { baselines as buildBaselines, type BaselineName } from './baselines.js';
 import { DesignEvaluator, overAbandonmentLimit, scoreSpecOf, type DesignRecord, type ScoringChoice } from '../scoring/evaluator.js';
@@ -260,6 +261,13 @@ export function describeChanges(problem: DesignProblem, design: Uint8Array): str
   return parts.length > 0 ? parts.join('; ') : "no change from today's design";
 }
 
+/** The largest of the values (0 for none: waits are never negative). */
+function largest(xs: ArrayLike<number>): number {
+  let m = 0;
+  for (let k = 0; k < xs.length; k++) m = Math.max(m, xs[k]!);
+  return m;
+}
+
 /** Exact details of one design (main thread). */
 export function designDetails(problem: DesignProblem, objective: ObjectiveName, design: Uint8Array, maxSets?: number): DesignDetails {
   const model = compileGraph(problem.ids, problem.rates, designPairs(problem, design));
@@ -270,10 +278,8 @@ export function designDetails(problem: DesignProblem, objective: ObjectiveName, 
     return { ...base, stable: false, objective: NaN, backlogTotal: NaN, valueRate: NaN, backlog: null, wait: null, maxWait: NaN, minEdgeFlow: NaN, bottleneckSlack: NaN, independentSets: 0 };
   }
   const r = evaluateExact(model, maxSets === undefined ? {} : { maxSets });
-  let minEdgeFlow = Infinity;
-  for (const c of report.components) minEdgeFlow = Math.min(minEdgeFlow, c.minEdgeFlow ?? Infinity);
-  let maxWait = 0;
-  for (let k = 0; k < problem.n; k++) maxWait = Math.max(maxWait, r.wait[k]!);
+  const minEdgeFlow = minEdgeFlowOf(report);
+  const maxWait = largest(r.wait);
   const valueRate = problem.hasValues ? sumValue(designPairValues(problem, design), r.matchRates) : NaN;
   return {
     ...base,
@@ -307,10 +313,8 @@ export function detailsOfScore(problem: DesignProblem, objective: ObjectiveName,
   const report = checkStability(model);
   const backlog = s.backlog!;
   const wait = Float64Array.from(backlog, (b, k) => b / problem.rates[k]!);
-  let minEdgeFlow = Infinity;
-  for (const c of report.components) minEdgeFlow = Math.min(minEdgeFlow, c.minEdgeFlow ?? Infinity);
-  let maxWait = 0;
-  for (let k = 0; k < problem.n; k++) maxWait = Math.max(maxWait, wait[k]!);
+  const minEdgeFlow = minEdgeFlowOf(report);
+  const maxWait = largest(wait);
   return {
     design,
     key: designKey(design),
@@ -348,11 +352,9 @@ function detailsOfRecord(problem: DesignProblem, r: DesignRecord): DesignDetails
     return { ...base, stable: false, objective: NaN, backlogTotal: NaN, valueRate: NaN, backlog: null, wait: null, maxWait: NaN, minEdgeFlow: NaN, bottleneckSlack: NaN, independentSets: 0 };
   }
   const report = checkStability(compileGraph(problem.ids, problem.rates, designPairs(problem, r.design)));
-  let minEdgeFlow = Infinity;
-  for (const c of report.components) minEdgeFlow = Math.min(minEdgeFlow, c.minEdgeFlow ?? Infinity);
+  const minEdgeFlow = minEdgeFlowOf(report);
   const wait = r.backlog ? Float64Array.from(r.backlog, (b, k) => b / problem.rates[k]!) : null;
-  let maxWait = wait ? 0 : NaN;
-  if (wait) for (let k = 0; k < problem.n; k++) maxWait = Math.max(maxWait, wait[k]!);
+  const maxWait = wait ? largest(wait) : NaN;
   return {
     ...base,
     stable: true,
@@ -449,8 +451,7 @@ function todayIfStable(problem: DesignProblem): MilpDesign | undefined {
   if (!degreesAllowed(problem, design)) return undefined;
   const report = checkStability(compileGraph(problem.ids, problem.rates, designPairs(problem, design)));
   if (!report.stable) return undefined;
-  let minFlow = Infinity;
-  for (const c of report.components) minFlow = Math.min(minFlow, c.minEdgeFlow ?? Infinity);
+  const minFlow = minEdgeFlowOf(report);
   return { design, cost: designCost(problem, design), minFlow, verifiedMinFlow: minFlow, proven: false, solves: 0 };
 }
 
