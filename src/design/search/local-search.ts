@@ -45,7 +45,7 @@ export interface SearchOptions {
    * A second pass once the first has expanded its layers without reaching `maxDesigns`: the same
    * search state (expansions, penalty verdicts, the evaluator's cache) expanded again with these
    * layers, up to the same limit. A simulated search starts with the front's add/remove moves only
-   * and then, where the limit leaves room, adds swaps and a second layer.
+   * and then, where the limit leaves room, expands a second layer.
    */
   readonly refine?: { readonly depth: number; readonly swapLayers: number };
 }

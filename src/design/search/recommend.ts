@@ -261,6 +261,9 @@ export function describeChanges(problem: DesignProblem, design: Uint8Array): str
   return parts.length > 0 ? parts.join('; ') : "no change from today's design";
 }
 
+/** The figures of an unstable design: none. */
+const UNSTABLE_FIGURES = { stable: false, objective: NaN, backlogTotal: NaN, valueRate: NaN, backlog: null, wait: null, maxWait: NaN, minEdgeFlow: NaN, bottleneckSlack: NaN, independentSets: 0 } as const;
+
 /** The largest of the values (0 for none: waits are never negative). */
 function largest(xs: ArrayLike<number>): number {
   let m = 0;
@@ -275,7 +278,7 @@ export function designDetails(problem: DesignProblem, objective: ObjectiveName, 
   const base = { design, key: designKey(design), cost: designCost(problem, design), added, removed };
   const report = checkStability(model);
   if (!report.stable) {
-    return { ...base, stable: false, objective: NaN, backlogTotal: NaN, valueRate: NaN, backlog: null, wait: null, maxWait: NaN, minEdgeFlow: NaN, bottleneckSlack: NaN, independentSets: 0 };
+    return { ...base, ...UNSTABLE_FIGURES };
   }
   const r = evaluateExact(model, maxSets === undefined ? {} : { maxSets });
   const minEdgeFlow = minEdgeFlowOf(report);
@@ -304,7 +307,7 @@ export function detailsOfScore(problem: DesignProblem, objective: ObjectiveName,
   if (s.method !== 'simulation' || !s.stable) {
     if (!s.stable && s.method === 'simulation') {
       const { added, removed } = designChanges(problem, design);
-      return { design, key: designKey(design), cost: designCost(problem, design), added, removed, stable: false, objective: NaN, backlogTotal: NaN, backlog: null, valueRate: NaN, wait: null, maxWait: NaN, minEdgeFlow: NaN, bottleneckSlack: NaN, independentSets: 0, method: 'simulation' };
+      return { design, key: designKey(design), cost: designCost(problem, design), added, removed, ...UNSTABLE_FIGURES, method: 'simulation' };
     }
     return designDetails(problem, objective, design, maxSets);
   }
@@ -349,7 +352,7 @@ function detailsOfRecord(problem: DesignProblem, r: DesignRecord): DesignDetails
   const { added, removed } = designChanges(problem, r.design);
   const base = { design: r.design, key: r.key, cost: r.cost, added, removed };
   if (!r.stable) {
-    return { ...base, stable: false, objective: NaN, backlogTotal: NaN, valueRate: NaN, backlog: null, wait: null, maxWait: NaN, minEdgeFlow: NaN, bottleneckSlack: NaN, independentSets: 0 };
+    return { ...base, ...UNSTABLE_FIGURES };
   }
   const report = checkStability(compileGraph(problem.ids, problem.rates, designPairs(problem, r.design)));
   const minEdgeFlow = minEdgeFlowOf(report);
@@ -550,7 +553,7 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
           depth: options.depth ?? (simulatedSearch ? 1 : objective === 'max-wait' ? 4 : 2),
           ...(options.kicks === undefined ? (simulatedSearch ? { kicks: Math.min(problem.toggles.length, 10) } : {}) : { kicks: options.kicks }),
           ...(options.swapLayers === undefined ? (simulatedSearch ? { swapLayers: 0 } : {}) : { swapLayers: options.swapLayers }),
-          // then, where the limit leaves room, swaps on the front and a second layer
+          // then, where the limit leaves room, a second layer (add and remove moves)
           ...(simulatedSearch && options.depth === undefined && options.swapLayers === undefined ? { refine: { depth: 2, swapLayers: 0 } } : {}),
           ...(maxDesigns === undefined ? {} : { maxDesigns }),
         });
