@@ -41,8 +41,10 @@ export interface DesignRecord {
   /** Within the budget and maxCompatibilities. */
   readonly withinLimits: boolean;
   /**
-   * Simulated with patience: the share of some limited class's arrivals that abandon is above its
-   * maxAbandonment (point estimate of the search's run). False when the figures have no abandonment.
+   * Simulated with patience: the share of some limited class's arrivals that abandon is clearly
+   * above its maxAbandonment — the whole 95 % interval of the search's short run (the point
+   * estimate where there is no interval). A design whose interval holds the limit stays admissible:
+   * the longer re-score decides. False when the figures have no abandonment.
    */
   readonly overAbandonmentLimit: boolean;
   /** Within budget and limits, stable, meets every wait target and abandonment limit: may enter the Pareto archive. */
@@ -158,7 +160,8 @@ export class DesignEvaluator {
     const within = admissibleBeforeEvaluation(p, design);
     const value = { valueRate: s.valueRate, waitingCost: p.waitingCost };
     const objective = s.stable ? objectiveValue(this.objective, s.backlogTotal, s.backlog ?? undefined, p.rates, p.weight, value, s.abandonShareTotal) : NaN;
-    const over = s.stable && overAbandonmentLimit(p, s.abandonShare);
+    // the short run's noise alone must not keep a design out: over only when its interval is
+    const over = s.stable && overAbandonmentLimit(p, s.abandonShareLo ?? s.abandonShare);
     return {
       key,
       design,
