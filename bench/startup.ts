@@ -10,7 +10,7 @@
  * in the same rounds), e.g. a build of the commit before a change.
  */
 import { spawnSync } from 'node:child_process';
-import { readFileSync, writeFileSync } from 'node:fs';
+import { existsSync, readFileSync, writeFileSync } from 'node:fs';
 import { join } from 'node:path';
 import { builtCli, load, median, repoRoot, scratchDir, timeProcess } from './_processes.js';
 
@@ -29,7 +29,10 @@ function main(): void {
   // CommonJS loader for the packages loaded by require() (createRequire and the packages' own)
   const hook = join(dir, 'trace.mjs');
   const out = join(dir, 'packages.txt');
-  const record = `const m = /node_modules\\/((?:@[^/]+\\/)?[^/]+)/.exec(String(u)); if (m) appendFileSync(process.env.EDGEWISE_TRACE, m[1] + '\\n');`;
+  // npm packages, and the files of the bundled command line (dist/cli/main.js, its chunks, the worker)
+  const record =
+    `const m = /node_modules\\/((?:@[^/]+\\/)?[^/]+)/.exec(String(u)); if (m) appendFileSync(process.env.EDGEWISE_TRACE, m[1] + '\\n'); ` +
+    `const f = /dist\\/cli\\/((?:chunk-[A-Z0-9]+|main|worker)\\.js)$/.exec(String(u)); if (f) appendFileSync(process.env.EDGEWISE_TRACE, 'file:' + f[1] + '\\n');`;
   writeFileSync(
     hook,
     `import Module, { register } from 'node:module';\n` +
@@ -71,11 +74,17 @@ function main(): void {
       }
     });
   }
-  log(`command             CPU s   wall s  ${before ? 'CPU s before  ' : ''}heavy packages loaded`);
+  const map = join(repoRoot, 'dist', 'cli', 'bundle-packages.json');
+  const bundled = (existsSync(map) ? JSON.parse(readFileSync(map, 'utf8')) : {}) as Record<string, string[]>;
+  log(`command             CPU s   wall s  ${before ? 'CPU s before  ' : ''}heavy packages loaded (bundled or from node_modules)`);
   commands.forEach(([name, args], i) => {
     writeFileSync(out, '');
-    spawnSync(process.execPath, ['--import', hook, cli.path, ...args], { env: { ...process.env, EDGEWISE_TRACE: out }, encoding: 'utf8' });
-    const loaded = new Set(readFileSync(out, 'utf8').split('\n').filter(Boolean));
+    const traced = spawnSync(process.execPath, ['--import', hook, cli.path, ...args], { env: { ...process.env, EDGEWISE_TRACE: out }, encoding: 'utf8' });
+    if (traced.status !== 0) log(`  (the traced run of ${name} exited ${traced.status}: ${traced.stderr.trim().split('\n').slice(0, 8).join(' / ')})`);
+    const lines = readFileSync(out, 'utf8').split('\n').filter(Boolean);
+    // the packages inside the bundle's files that were loaded (scripts/bundle-cli.mjs), and the others
+    const loaded = new Set(lines.filter((l) => !l.startsWith('file:')));
+    for (const l of lines) if (l.startsWith('file:')) for (const p of bundled[l.slice(5)] ?? []) loaded.add(p);
     const heavy = HEAVY.filter((p) => loaded.has(p));
     const c = cpu[i]!.length > 0 ? median(cpu[i]!).toFixed(3) : '?';
     const b = before ? `${(cpuBefore[i]!.length > 0 ? median(cpuBefore[i]!).toFixed(3) : '?').padStart(12)}  ` : '';

@@ -8,17 +8,14 @@ import type { Block } from '../output/text/doc.js';
 import type { CommandIO } from './io.js';
 
 /**
- * The output modules (JSON, text documents, wrapping: string-width), imported when the command
- * starts and awaited only after its work: their loading is left to the event loop's first turn,
- * so a command that starts worker threads (`simulate`) loads them while the workers run instead
- * of before it hands them their work.
+ * The output modules, imported when the command starts and awaited only after its work: their
+ * loading is left to the event loop's first turn, so a command that starts worker threads
+ * (`simulate`) loads them while the workers run instead of before it hands them their work. The
+ * text modules (documents, wrapping: string-width, whose set-up alone costs about 10 ms) are loaded
+ * only for text output, or for warnings.
  */
-const outputModules = () =>
-  Promise.all([import('../output/machine.js'), import('../output/text/doc.js'), import('../output/text/wrap.js')]).then(([machine, doc, wrap]) => ({
-    renderJson: machine.renderJson,
-    renderDoc: doc.renderDoc,
-    wrap: wrap.wrap,
-  }));
+const jsonModule = () => import('../output/machine.js');
+const textModules = () => Promise.all([import('../output/text/doc.js'), import('../output/text/wrap.js')]).then(([doc, wrap]) => ({ renderDoc: doc.renderDoc, wrap: wrap.wrap }));
 
 /** The output switches every command shares. */
 export interface OutputOptions {
@@ -32,8 +29,8 @@ export interface CommandSpec<I, R extends { readonly warnings: readonly string[]
   /** Options and files → the use case's input (throws UsageError, InvalidScenarioError…). */
   load(io: CommandIO): Promise<I> | I;
   run(input: I, io: CommandIO): Promise<R>;
-  /** The record for people. */
-  text(record: R, input: I): Block[];
+  /** The record for people (a command may import its text module here, when it is needed). */
+  text(record: R, input: I): Block[] | Promise<Block[]>;
   /** The record as CSV, for commands that have a CSV form. */
   csv?(record: R, input: I): string;
   /** The record as JSON (default: the whole record, rounded). */
@@ -48,15 +45,18 @@ export interface CommandSpec<I, R extends { readonly warnings: readonly string[]
 export async function execute<I, R extends { readonly warnings: readonly string[] }>(spec: CommandSpec<I, R>, out: OutputOptions, io: CommandIO): Promise<number> {
   if (out.json && out.csv) throw new UsageError('choose one of --json and --csv');
   if (out.csv && !spec.csv) throw new UsageError('this command has no CSV output; use --json');
-  const output = outputModules();
-  void output.catch(() => undefined); // awaited after the work
+  const json = out.json && !spec.json ? jsonModule() : undefined;
+  let text = !out.json && !out.csv ? textModules() : undefined;
+  for (const p of [json, text]) void p?.catch(() => undefined); // awaited after the work
   const input = await spec.load(io);
   const record = await spec.run(input, io);
-  const { renderJson, renderDoc, wrap } = await output;
-  if (out.json) io.out(spec.json ? spec.json(record, input) : renderJson(record));
+  if (out.json) io.out(spec.json ? spec.json(record, input) : (await json!).renderJson(record));
   else if (out.csv) io.out(spec.csv!(record, input));
-  else io.out(renderDoc(spec.text(record, input), { width: io.columns, wide: out.wide === true }));
-  for (const w of record.warnings) io.err(`${wrap(`warning: ${w}`, io.columns, '  ').join('\n')}\n`);
+  else io.out((await text!).renderDoc(await spec.text(record, input), { width: io.columns, wide: out.wide === true }));
+  if (record.warnings.length > 0) {
+    const { wrap } = await (text ??= textModules());
+    for (const w of record.warnings) io.err(`${wrap(`warning: ${w}`, io.columns, '  ').join('\n')}\n`);
+  }
   await spec.after?.(record, input, io);
   return spec.exitCode ? spec.exitCode(record, input) : 0;
 }

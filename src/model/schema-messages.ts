@@ -4,7 +4,7 @@
  * closest known key ("did you mean `waitTarget`?").
  */
 import { distance } from 'fastest-levenshtein';
-import type { z } from 'zod';
+import type * as z from 'zod';
 import { preview, type PathStep } from './preview.js';
 import { KNOWN_KEYS } from './schema.js';
 

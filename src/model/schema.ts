@@ -10,7 +10,7 @@
  * compatibilities and on candidates. Messages are written by schema-messages.ts from the issue
  * codes, so the declaration below only states the rules.
  */
-import { z } from 'zod';
+import * as z from 'zod';
 import { LIMITS } from './limits.js';
 
 const text = (description: string) => z.string().max(LIMITS.textChars).meta({ description });

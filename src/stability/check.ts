@@ -1,13 +1,14 @@
 /**
- * The stability verdict (synchronous, javascript-lp-solver), judged per connected component.
+ * The stability verdict (synchronous), judged per connected component.
  *
  * Reference: "Stability of the stochastic matching model", J. Appl. Probab. 2016, with the
  * self-loop extension of 2021 (venue from memory): stable iff λ(I) < λ(N(I)) for every non-empty
  * independent set I without self-looped class. Independent sets are never enumerated here:
  *   - a bipartite component (no self-loop) is never stable; its heavier side is the certificate;
  *   - a single self-looped class is always stable (no such I exists);
- *   - otherwise floating-point tools find the candidate tightest sets — the edge-flow LP
- *     (programs.ts) says whether to look for an overloaded set, minimum cuts of the double cover
+ *   - otherwise floating-point tools find the candidate tightest sets — the largest least edge
+ *     flow t* (edge-flow.ts, by minimum cuts; the edge-flow LP of programs.ts when those give up)
+ *     says whether to look for an overloaded set, minimum cuts of the double cover
  *     (double-cover.ts) find the set of smallest slack containing each class — and the sign of
  *     λ(N(I)) − λ(I) of those sets is decided exactly from the rates as decimals (exact-slack.ts).
  *     Verdicts are therefore exact down to relative slacks far below 1e-12 (what limits them is
@@ -29,6 +30,7 @@ import { DoubleCover } from './double-cover.js';
 import { exactSlack } from '../model/exact-slack.js';
 import { asTightSet, componentHeadroom } from './headroom.js';
 import { edgeFlowProgram, readEdgeFlow } from './programs.js';
+import { leastEdgeFlow, type LeastEdgeFlow } from './edge-flow.js';
 import type { ComponentStability, IndexCertificate, StabilityReport } from './report.js';
 import { scratchOf } from './scratch.js';
 import { measure, stripNeighbours, type SetMeasure } from './sets.js';
@@ -54,6 +56,17 @@ function decided(m: SetMeasure, original: ArrayLike<number>, scale: number): Set
   return { ...m, slack: exact.value / scale };
 }
 
+/** t* and an optimal flow by the linear program (programs.ts), when the cuts of edge-flow.ts give up. */
+function edgeFlowByLp(model: CompiledModel, members: Int32Array): LeastEdgeFlow {
+  const program = edgeFlowProgram(model, members);
+  const sol = solveWithJsLp(program.lp);
+  if (sol.status !== 'optimal') {
+    throw new SolverError(`the edge-flow LP of a component (${members.length} classes) came back ${sol.status}${sol.message ? `: ${sol.message}` : ''}`);
+  }
+  const { minEdgeFlow, flow: mu } = readEdgeFlow(program, sol);
+  return { minEdgeFlow, writeFlow: (flow) => program.edges.forEach((e, j) => (flow[e] = Math.max(0, mu[j]!))) };
+}
+
 function judgeComponent(model: CompiledModel, original: ArrayLike<number>, scale: number, members: Int32Array, headroom: Float64Array, flow: Float64Array): Judged {
   if (members.length === 1 && model.selfLoop[members[0]!]) {
     // one class matching its own kind: every item waits for the next one, μ(loop) = λ / 2
@@ -68,12 +81,8 @@ function judgeComponent(model: CompiledModel, original: ArrayLike<number>, scale
     const certificate = bipartiteCertificate(model, members, two.side);
     return { component: { members, bipartite: true, stable: false, certificate }, tight: [] };
   }
-  const program = edgeFlowProgram(model, members);
-  const sol = solveWithJsLp(program.lp);
-  if (sol.status !== 'optimal') {
-    throw new SolverError(`the edge-flow LP of a component (${members.length} classes) came back ${sol.status}${sol.message ? `: ${sol.message}` : ''}`);
-  }
-  const { minEdgeFlow, flow: mu } = readEdgeFlow(program, sol);
+  const least = leastEdgeFlow(model, members) ?? edgeFlowByLp(model, members);
+  const minEdgeFlow = least.minEdgeFlow;
   const cover = new DoubleCover(model, members);
   const unstable = (m: SetMeasure): Judged => {
     members.forEach((k) => (headroom[k] = NaN));
@@ -94,7 +103,7 @@ function judgeComponent(model: CompiledModel, original: ArrayLike<number>, scale
   const first = tight[0];
   if (first && first.slack <= 0) return unstable(first);
   for (const m of tight) for (let i = 0; i < m.set.length; i++) headroom[m.set[i]!] = Math.min(headroom[m.set[i]!]!, m.slack);
-  program.edges.forEach((e, j) => (flow[e] = Math.max(0, mu[j]!)));
+  least.writeFlow(flow);
   return { component: { members, bipartite: false, stable: true, minEdgeFlow }, tight };
 }
 

@@ -6,7 +6,9 @@
  * every task's promise with its result. Callers put results back in input order themselves, so
  * nothing they compute depends on which worker finishes first.
  *
- * Workers run the compiled module dist/workers/worker.js. When this module runs from the TypeScript
+ * Workers run the compiled module worker.js beside this one: dist/workers/worker.js for the library,
+ * dist/cli/worker.js in the bundled command line (scripts/bundle-cli.mjs puts the worker's bundle
+ * next to the chunk that holds this module). When this module runs from the TypeScript
  * sources (vitest, tsx) there is no compiled worker next to it: `workerUrl()` is undefined and the
  * callers run the same code in the calling thread instead.
  *

@@ -1,5 +1,4 @@
 import { checkUseCase } from '../../usecases/check.js';
-import { checkText } from '../../output/text/check.js';
 import { execute, type OutputOptions } from '../command.js';
 import type { CommandIO } from '../io.js';
 import { loadContext, type ContextFlags } from '../load.js';
@@ -12,7 +11,7 @@ export function checkCommand(opts: CheckOptions, io: CommandIO): Promise<number>
     {
       load: (io) => loadContext(opts, io.cwd),
       run: (ctx) => checkUseCase(ctx),
-      text: (r, ctx) => checkText(r, ctx.costUnit),
+      text: async (r, ctx) => (await import('../../output/text/check.js')).checkText(r, ctx.costUnit),
       exitCode: (r) => (r.stable ? 0 : 3),
     },
     opts,

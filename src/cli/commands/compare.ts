@@ -1,6 +1,5 @@
 import { UsageError } from '../../errors.js';
 import { compareCsv } from '../../output/csv.js';
-import { compareText } from '../../output/text/compare.js';
 import { compareUseCase } from '../../usecases/compare.js';
 import { execute, type OutputOptions } from '../command.js';
 import type { CommandIO } from '../io.js';
@@ -51,7 +50,7 @@ export function compareCommand(opts: CompareOptions, io: CommandIO): Promise<num
         return { columns, recommend: maxDesigns === undefined ? {} : { maxDesigns }, scoring, concurrency };
       },
       run: (input) => compareUseCase(input),
-      text: (r) => compareText(r),
+      text: async (r) => (await import('../../output/text/compare.js')).compareText(r),
       csv: (r) => compareCsv(r),
     },
     opts,

@@ -1,5 +1,4 @@
 import { evaluateUseCase } from '../../usecases/evaluate.js';
-import { evaluateText } from '../../output/text/evaluate.js';
 import { execute, type OutputOptions } from '../command.js';
 import type { CommandIO } from '../io.js';
 import { loadContext, type ContextFlags } from '../load.js';
@@ -26,7 +25,7 @@ export function evaluateCommand(opts: EvaluateOptions, io: CommandIO): Promise<n
         return { ctx: loadContext(opts, io.cwd), score, seed, jobs };
       },
       run: ({ ctx, score, seed, jobs }) => evaluateUseCase(ctx, { score, seed, jobs, ...(opts.maxSets === undefined ? {} : { maxSets: opts.maxSets }) }),
-      text: (r, { ctx }) => evaluateText(r, { costUnit: ctx.costUnit, ...(opts.waitUnit ? { waitUnit: opts.waitUnit } : {}) }),
+      text: async (r, { ctx }) => (await import('../../output/text/evaluate.js')).evaluateText(r, { costUnit: ctx.costUnit, ...(opts.waitUnit ? { waitUnit: opts.waitUnit } : {}) }),
       exitCode: (r) => (r.stable ? 0 : 3),
     },
     opts,

@@ -2,7 +2,6 @@ import { UsageError } from '../../errors.js';
 import { OBJECTIVES, type ObjectiveName } from '../../design/space/objective.js';
 import { recommendCsv } from '../../output/csv.js';
 import { renderJson } from '../../output/machine.js';
-import { recommendText } from '../../output/text/recommend.js';
 import { recommendUseCase, type RecommendRecord } from '../../usecases/recommend.js';
 import { savedDesign } from '../../usecases/saved-design.js';
 import { execute, type OutputOptions } from '../command.js';
@@ -71,7 +70,7 @@ export function recommendCommand(opts: RecommendCommandOptions, io: CommandIO): 
           bar.stop();
         }
       },
-      text: (r) => recommendText(r, opts.waitUnit ? { waitUnit: opts.waitUnit } : {}),
+      text: async (r) => (await import('../../output/text/recommend.js')).recommendText(r, opts.waitUnit ? { waitUnit: opts.waitUnit } : {}),
       csv: (r) => recommendCsv(r),
       after: (r: RecommendRecord, { ctx, pick }, io) => {
         if (!savePath) return;

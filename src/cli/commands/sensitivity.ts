@@ -1,5 +1,4 @@
 import { sensitivityUseCase } from '../../usecases/sensitivity.js';
-import { sensitivityText } from '../../output/text/sensitivity.js';
 import { sensitivityCsv } from '../../output/csv.js';
 import { execute, type OutputOptions } from '../command.js';
 import type { CommandIO } from '../io.js';
@@ -19,7 +18,7 @@ export function sensitivityCommand(opts: SensitivityCommandOptions, io: CommandI
         return { ctx: loadContext(opts, io.cwd), scoring };
       },
       run: ({ ctx, scoring }) => sensitivityUseCase(ctx, { allPairs: opts.allPairs === true, ...scoring }),
-      text: (r) => sensitivityText(r),
+      text: async (r) => (await import('../../output/text/sensitivity.js')).sensitivityText(r),
       csv: (r) => sensitivityCsv(r),
       exitCode: (r) => (r.base.stable ? 0 : 3),
     },

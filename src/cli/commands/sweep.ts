@@ -1,7 +1,6 @@
 import { UsageError } from '../../errors.js';
 import { NotationError, readAsciiIds, readAsciiPairs } from '../../output/ascii-pairs.js';
 import { sweepCsv } from '../../output/csv.js';
-import { sweepText } from '../../output/text/sweep.js';
 import { sweepUseCase } from '../../usecases/sweep.js';
 import { execute, type OutputOptions } from '../command.js';
 import type { CommandIO } from '../io.js';
@@ -47,7 +46,7 @@ export function sweepCommand(opts: SweepCommandOptions, io: CommandIO): Promise<
         return { ctx: loadContext(opts, io.cwd), input: { grow, variants, steps, ...scoring } };
       },
       run: ({ ctx, input }) => sweepUseCase(ctx, input),
-      text: (r) => sweepText(r),
+      text: async (r) => (await import('../../output/text/sweep.js')).sweepText(r),
       csv: (r) => sweepCsv(r),
     },
     opts,
