@@ -96,9 +96,33 @@ export function compileGraph(ids: readonly string[], rates: ArrayLike<number>, p
   }
   let total = 0;
   for (let k = 0; k < n; k++) total += r[k]!;
-  const index = new Map<string, number>();
-  ids.forEach((id, k) => index.set(id, k));
-  return { n, ids: [...ids], index, rates: r, totalRate: total, selfLoop, m, edgeA, edgeB, adjStart, adj, adjEdge, selfEdge };
+  const { ids: own, index } = idsOf(ids);
+  return { n, ids: own, index, rates: r, totalRate: total, selfLoop, m, edgeA, edgeB, adjStart, adj, adjEdge, selfEdge };
+}
+
+/**
+ * The model's copy of the class ids and their index, shared by every model compiled from the same
+ * id list: a search compiles thousands of designs of one problem, and building the map each time
+ * cost more than compiling the graph of a small design. The list itself is the key (its entries are
+ * compared on every use, in case a caller changed it since).
+ */
+const idCache = new WeakMap<readonly string[], { readonly ids: readonly string[]; readonly index: ReadonlyMap<string, number> }>();
+
+function sameIds(a: readonly string[], b: readonly string[]): boolean {
+  if (a.length !== b.length) return false;
+  for (let k = 0; k < a.length; k++) if (a[k] !== b[k]) return false;
+  return true;
+}
+
+function idsOf(ids: readonly string[]): { readonly ids: readonly string[]; readonly index: ReadonlyMap<string, number> } {
+  let entry = idCache.get(ids);
+  if (!entry || !sameIds(entry.ids, ids)) {
+    const own = Object.freeze([...ids]);
+    entry = { ids: own, index: new Map(own.map((id, k) => [id, k] as const)) };
+    idCache.set(ids, entry);
+    idCache.set(own, entry);
+  }
+  return entry;
 }
 
 /** Compiles a validated scenario (its compatibilities, in file order). */

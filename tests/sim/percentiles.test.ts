@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { waitQuantile } from '../../src/sim/percentiles.js';
+import { smallestReaching, waitQuantile } from '../../src/sim/percentiles.js';
 import { ARRIVAL_BINS, arrivalBin, arrivalBinRange, arrivalBinValue, TIME_BINS, timeBin, timeBinRange } from '../../src/sim/wait-bins.js';
 
 const arrivalsHist = (entries: Array<[number, number]>): Float64Array => {
@@ -79,5 +79,48 @@ describe('wait quantiles', () => {
     expect(w * Lam).toBeLessThan(hi);
     expect(waitQuantile('time', h, 0, TIME_BINS, Lam, 0.5)).toBe(0);
     expect(waitQuantile('time', new Float64Array(TIME_BINS), 0, TIME_BINS, Lam, 0.5)).toBeNaN();
+  });
+});
+
+describe('the root finder of the quantiles (smallestReaching)', () => {
+  /** Plain bisection to the same tolerance: the reference. */
+  const bisect = (f: (x: number) => number, target: number, lo: number, hi: number): number => {
+    while (hi - lo > 1e-10 * hi) {
+      const mid = (lo + hi) / 2;
+      if (f(mid) >= target) hi = mid;
+      else lo = mid;
+    }
+    return hi;
+  };
+
+  it('solves 1 − e^{−x} = p to 1e-10 (closed form −ln(1 − p), derived by hand), with fewer evaluations than bisection', () => {
+    for (const p of [1e-6, 0.01, 0.5, 0.9, 0.99, 0.999999]) {
+      let calls = 0;
+      const f = (x: number): number => {
+        calls++;
+        return 1 - Math.exp(-x);
+      };
+      const x = smallestReaching(f, p, 0, 100);
+      expect(Math.abs(x - -Math.log(1 - p))).toBeLessThanOrEqual(2e-10 * Math.max(1, x));
+      let bisections = 0;
+      bisect((y) => (bisections++, 1 - Math.exp(-y)), p, 0, 100);
+      expect(calls).toBeLessThan(bisections);
+    }
+  });
+
+  it('agrees with bisection on steep, flat and kinked increasing functions', () => {
+    const fs: Array<(x: number) => number> = [
+      (x) => 1 / (1 + Math.exp(-50 * (x - 3))), // a steep logistic step at 3
+      (x) => Math.min(1, x / 7) ** 8, // flat, then steep, then a kink at 7
+      (x) => (x < 2 ? 0.1 * x : 0.2 + 0.4 * (x - 2)), // a kink at 2
+    ];
+    for (const f of fs) {
+      for (const p of [0.05, 0.3, 0.5, 0.8, 0.95]) {
+        const want = bisect(f, p, 0, 10);
+        const got = smallestReaching(f, p, 0, 10);
+        expect(Math.abs(got - want)).toBeLessThanOrEqual(3e-10 * want);
+        expect(f(got)).toBeGreaterThanOrEqual(p); // the end returned reaches the level
+      }
+    }
   });
 });

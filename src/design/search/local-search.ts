@@ -65,26 +65,33 @@ export interface SearchResult {
   readonly limitReached: boolean;
 }
 
-/** Neighbours of a design that respect the budget and maxCompatibilities: flips, then swaps. */
-export function neighbours(problem: DesignProblem, design: Uint8Array, swaps = true): Uint8Array[] {
-  const k = problem.toggles.length;
-  const out: Uint8Array[] = [];
-  for (let j = 0; j < k; j++) {
-    const d = Uint8Array.from(design);
-    d[j] = d[j] ? 0 : 1;
-    if (admissibleBeforeEvaluation(problem, d)) out.push(d);
-  }
-  if (!swaps) return out;
-  for (let i = 0; i < k; i++) {
-    for (let j = i + 1; j < k; j++) {
-      if (design[i] === design[j]) continue;
-      const d = Uint8Array.from(design);
-      d[i] = d[i] ? 0 : 1;
-      d[j] = d[j] ? 0 : 1;
-      if (admissibleBeforeEvaluation(problem, d)) out.push(d);
-    }
-  }
-  return out;
+/**
+ * The moves to a design's neighbours, in the order the search scores them: each toggle flipped
+ * ([i, −1]), then, with `swaps`, each pair of toggles in different states swapped ([i, j], i < j).
+ * Which of them respect the budget and maxCompatibilities is checked by the caller, after the key
+ * lookup: most neighbours of a later round are already scored, and building their designs costs
+ * more than their keys.
+ */
+export function* moves(design: Uint8Array, swaps = true): Generator<readonly [number, number]> {
+  const k = design.length;
+  for (let i = 0; i < k; i++) yield [i, -1];
+  if (!swaps) return;
+  for (let i = 0; i < k; i++) for (let j = i + 1; j < k; j++) if (design[i] !== design[j]) yield [i, j];
+}
+
+/** The key (designKey) of the design reached by a move from the design of key `key`. */
+function movedKey(key: string, [i, j]: readonly [number, number]): string {
+  const flip = (c: string): string => (c === '1' ? '0' : '1');
+  if (j < 0) return key.slice(0, i) + flip(key[i]!) + key.slice(i + 1);
+  return key.slice(0, i) + flip(key[i]!) + key.slice(i + 1, j) + flip(key[j]!) + key.slice(j + 1);
+}
+
+/** The design reached by a move. */
+function moved(design: Uint8Array, [i, j]: readonly [number, number]): Uint8Array {
+  const d = Uint8Array.from(design);
+  d[i] = d[i] ? 0 : 1;
+  if (j >= 0) d[j] = d[j] ? 0 : 1;
+  return d;
 }
 
 /** Shared state of a search: what has been expanded and which designs the penalty refused. */
@@ -200,17 +207,6 @@ function kickDesigns(problem: DesignProblem, front: readonly DesignRecord[], cou
   return out;
 }
 
-/** The one toggle by which b differs from a, or -1 (none, or several). */
-function flippedToggle(a: ArrayLike<number>, b: ArrayLike<number>): number {
-  let found = -1;
-  for (let j = 0; j < a.length; j++) {
-    if ((a[j] ? 1 : 0) === (b[j] ? 1 : 0)) continue;
-    if (found >= 0) return -1;
-    found = j;
-  }
-  return found;
-}
-
 /** Runs the search from the seeds (designs outside the budget or limits are ignored). */
 export async function paretoLocalSearch(evaluator: DesignEvaluator, seeds: readonly Uint8Array[], options: SearchOptions): Promise<SearchResult> {
   const problem = evaluator.problem;
@@ -301,12 +297,13 @@ async function searchRounds(
     let size = 0;
     for (const { r, level } of frontier) {
       const group: Array<{ d: Uint8Array; origin: Origin | undefined }> = [];
-      for (const d of neighbours(problem, r.design, level === 2)) {
-        const key = designKey(d);
+      for (const move of moves(r.design, level === 2)) {
+        const key = movedKey(r.key, move);
         if (evaluator.has(key) || queued.has(key)) continue;
+        const d = moved(r.design, move);
+        if (!admissibleBeforeEvaluation(problem, d)) continue;
         queued.add(key);
-        const j = flippedToggle(r.design, d);
-        group.push({ d, origin: j >= 0 ? { from: r, toggle: j } : undefined });
+        group.push({ d, origin: move[1] < 0 ? { from: r, toggle: move[0] } : undefined });
       }
       groups.push(group);
       size += group.length;
