@@ -31,16 +31,37 @@ export interface CompiledModel {
   readonly selfEdge: Int32Array;
 }
 
+let scratch = new Int32Array(64);
+
+/** A zeroed scratch array of n integers (compileGraph's counters; not re-entrant, never kept). */
+function scratchInts(n: number): Int32Array {
+  if (scratch.length < n) scratch = new Int32Array(Math.max(n, 2 * scratch.length));
+  const out = scratch.subarray(0, n);
+  out.fill(0);
+  return out;
+}
+
 /** Compiles from indices: `pairs` are [a, b] class indices (a may equal b). Pairs must be distinct. */
 export function compileGraph(ids: readonly string[], rates: ArrayLike<number>, pairs: ReadonlyArray<readonly [number, number]>): CompiledModel {
   const n = ids.length;
   const m = pairs.length;
   const r = Float64Array.from(rates);
-  const edgeA = new Int32Array(m);
-  const edgeB = new Int32Array(m);
+  let loops = 0;
+  for (let e = 0; e < m; e++) if (pairs[e]![0] === pairs[e]![1]) loops++;
+  const entries = 2 * (m - loops);
+  // the integer arrays are views of one buffer: a search compiles thousands of small designs, and
+  // every ArrayBuffer costs an allocation and garbage-collector bookkeeping of its own
+  const ints = new Int32Array(2 * m + n + (n + 1) + 2 * entries);
+  let at = 0;
+  const view = (length: number): Int32Array => ints.subarray(at, (at += length));
+  const edgeA = view(m);
+  const edgeB = view(m);
+  const selfEdge = view(n).fill(-1);
+  const adjStart = view(n + 1);
+  const adj = view(entries);
+  const adjEdge = view(entries);
   const selfLoop = new Uint8Array(n);
-  const selfEdge = new Int32Array(n).fill(-1);
-  const deg = new Int32Array(n);
+  const deg = scratchInts(n);
   for (let e = 0; e < m; e++) {
     const [x, y] = pairs[e]!;
     if (!(x >= 0 && x < n && y >= 0 && y < n)) throw new RangeError(`pair ${e} has a class index out of range`);
@@ -54,11 +75,10 @@ export function compileGraph(ids: readonly string[], rates: ArrayLike<number>, p
       deg[y]++;
     }
   }
-  const adjStart = new Int32Array(n + 1);
   for (let k = 0; k < n; k++) adjStart[k + 1] = adjStart[k]! + deg[k]!;
-  const fill = adjStart.slice(0, n);
-  const adj = new Int32Array(adjStart[n]!);
-  const adjEdge = new Int32Array(adjStart[n]!);
+  // deg becomes the next free position of each list
+  const fill = deg;
+  for (let k = 0; k < n; k++) fill[k] = adjStart[k]!;
   for (let e = 0; e < m; e++) {
     const a = edgeA[e]!;
     const b = edgeB[e]!;
