@@ -1,4 +1,5 @@
 import { createPool, workerUrl } from '../workers/pool.js';
+import type { WorkerTask } from '../workers/protocol.js';
 import { streamStates } from './random.js';
 import type { ReplicationPlan, ReplicationRecord } from './record.js';
 import type { SimModel } from './sim-model.js';
@@ -22,6 +23,14 @@ export interface RunnerOptions {
    * overlaps theirs. Without it, this thread starts as soon as the replication modules are loaded.
    */
   readonly startAfter?: Promise<unknown>;
+  /**
+   * A task for a worker besides the replications (`simulate`'s exact column), posted before them:
+   * the worker runs it while this thread starts on its own replications, which balances the
+   * threads' work. `accept` is called once, before this function first waits, with the task's
+   * result to come (undefined should the task fail or the run be stopped), or with undefined when
+   * there are no workers: the caller then does the work itself.
+   */
+  readonly side?: { readonly task: WorkerTask; readonly accept: (result: Promise<unknown> | undefined) => void };
 }
 
 /**
@@ -64,6 +73,8 @@ export async function runReplications(
   const signal = options.signal;
   const claims = new Int32Array(new SharedArrayBuffer(4 * count));
   const pool = createPool({ kind: 'simulate', model, plan, claims }, jobs, url, { withThisThread: true, depth: count });
+  const side = pool && options.side ? pool.run(options.side.task).catch(() => undefined) : undefined;
+  options.side?.accept(side);
   if (!pool) {
     const runReplication = await ownStart(options);
     let done = 0;
@@ -97,6 +108,7 @@ export async function runReplications(
       await new Promise<void>((r) => setImmediate(r)); // worker messages, timers, signals
     }
     await workers;
+    await side; // before the pool closes
   } catch (e) {
     if (!signal?.aborted) throw e;
   } finally {

@@ -3,7 +3,7 @@ import type { CompiledModel } from '../model/compile.js';
 import type { PolicyName } from './policy.js';
 import { isPolicyName, POLICIES } from './policy.js';
 import type { ReplicationPlan } from './record.js';
-import { plannedArrivals, runReplications } from './runner.js';
+import { plannedArrivals, runReplications, type RunnerOptions } from './runner.js';
 import { buildSimModel } from './sim-model.js';
 import { ReplicationPool, scaledSummary, type ReplicationSummary } from './summary.js';
 import { scaledModel } from '../model/rate-scale.js';
@@ -43,6 +43,8 @@ export interface SimulationOptions {
   readonly signal?: AbortSignal;
   /** This thread joins the replications once this settles (see RunnerOptions.startAfter). */
   readonly startAfter?: Promise<unknown>;
+  /** A worker's task besides the replications (see RunnerOptions.side). */
+  readonly side?: RunnerOptions['side'];
 }
 
 export interface SimulationResult extends ReplicationSummary {
@@ -126,6 +128,7 @@ export async function simulate(original: CompiledModel, options: SimulationOptio
       jobs,
       ...(options.signal ? { signal: options.signal } : {}),
       ...(options.startAfter ? { startAfter: options.startAfter } : {}),
+      ...(options.side ? { side: options.side } : {}),
       ...(options.workerUrl === undefined ? {} : { workerUrl: options.workerUrl }),
       ...(onProgress
         ? {

@@ -5,12 +5,15 @@
  *
  * The stability verdict and the exact evaluator are imported as the replications start
  * (`analysis`), and this thread joins the replications once it has used them
- * (`SimulationOptions.startAfter`): with worker threads their modules load and the exact column is
- * computed here while the workers simulate, instead of delaying the workers' first replication
- * (the serial start-up of `simulate --jobs 2`; bench/simulate.ts).
+ * (`SimulationOptions.startAfter`): with worker threads their modules load while the workers
+ * simulate, instead of delaying the workers' first replication (the serial start-up of
+ * `simulate --jobs 2`; bench/simulate.ts). With workers, the exact column is a worker's first task
+ * (`SimulationOptions.side`), so that this thread's replications start at once and the threads'
+ * shares of the work come out even; without workers this thread computes it.
  */
 import { describeCertificate, EdgewiseError } from '../errors.js';
-import type { ExactResult } from '../exact/result.js';
+import type { ExactColumn } from '../exact/column.js';
+import { edgePairs } from '../model/compile.js';
 import type { PolicyName } from '../sim/policy.js';
 import { simulate, type SimulationOptions } from '../sim/simulate.js';
 import type { Estimate, WaitEstimate } from '../sim/summary.js';
@@ -86,12 +89,12 @@ export interface SimulateInput {
 
 /** The modules of the stability verdict and of the exact column, loaded on first use. */
 const analysis = async () => {
-  const [{ checkStability }, { certificateWithIds }, { evaluateExact }] = await Promise.all([
+  const [{ checkStability }, { certificateWithIds }, { exactColumn }] = await Promise.all([
     import('../stability/check.js'),
     import('../stability/certificate.js'),
-    import('../exact/evaluate.js'),
+    import('../exact/column.js'),
   ]);
-  return { checkStability, certificateWithIds, evaluateExact };
+  return { checkStability, certificateWithIds, exactColumn };
 };
 type Analysis = Awaited<ReturnType<typeof analysis>>;
 
@@ -110,16 +113,18 @@ function stabilityOf(ctx: ScenarioContext, impatient: boolean, { checkStability,
   }
 }
 
-function exactOf(ctx: ScenarioContext, input: SimulateInput, impatient: boolean, stable: boolean | null, { evaluateExact }: Analysis): { exact?: ExactResult; reason: string | null } {
-  if (input.policy !== 'fcfm') return { reason: 'exact values exist for FCFM only' };
-  if (impatient) return { reason: 'exact values assume patient items' };
-  if (stable === false) return { reason: 'the design is unstable' };
-  try {
-    return { exact: evaluateExact(ctx.model, { maxSets: input.exactMaxSets, timeUnit: ctx.scenario.timeUnit }), reason: null };
-  } catch (e) {
-    if (e instanceof EdgewiseError) return { reason: e.message };
-    throw e;
-  }
+/** Why the exact column is left out before any evaluation, or null when it is to be computed. */
+function exactRefused(input: SimulateInput, impatient: boolean, stable: boolean | null): string | null {
+  if (input.policy !== 'fcfm') return 'exact values exist for FCFM only';
+  if (impatient) return 'exact values assume patient items';
+  if (stable === false) return 'the design is unstable';
+  return null;
+}
+
+function exactOf(ctx: ScenarioContext, input: SimulateInput, impatient: boolean, stable: boolean | null, { exactColumn }: Analysis): ExactColumn {
+  const refused = exactRefused(input, impatient, stable);
+  if (refused !== null) return { reason: refused };
+  return exactColumn(ctx.model.ids, ctx.model.rates, edgePairs(ctx.model), { maxSets: input.exactMaxSets, timeUnit: ctx.scenario.timeUnit });
 }
 
 const interval = (c: readonly [number, number] | null | undefined): [number, number] | null =>
@@ -157,21 +162,38 @@ export async function simulateUseCase(ctx: ScenarioContext, input: SimulateInput
     ...(input.signal ? { signal: input.signal } : {}),
     startAfter: modules,
   };
-  // the replications start first: on worker threads (--jobs 2 and more), the stability verdict and
-  // the exact FCFM column are computed in this thread while they run instead of before them
-  const running = simulate(model, options);
+  // with workers, one of them computes the exact column first (it is refused below should the
+  // design turn out unstable); the task is only posted when the column may be wanted
+  let offThread: Promise<unknown> | undefined;
+  const side: SimulationOptions['side'] =
+    exactRefused(input, impatient, null) === null
+      ? {
+          task: { kind: 'exact', ids: model.ids, rates: model.rates, pairs: edgePairs(model), maxSets: input.exactMaxSets, timeUnit: ctx.scenario.timeUnit },
+          accept: (result) => (offThread = result),
+        }
+      : undefined;
+  // the replications start first: on worker threads (--jobs 2 and more), the stability verdict is
+  // computed in this thread while they run instead of before them
+  const running = simulate(model, side ? { ...options, side } : options);
   void running.catch(() => undefined); // awaited below, after the imports: not an unhandled rejection meanwhile
   let stability: SimulateRecord['stability'];
-  let exact: ReturnType<typeof exactOf>;
+  let loaded: Analysis;
+  let exact: ExactColumn | undefined;
   try {
-    const loaded = await modules;
+    loaded = await modules;
     stability = stabilityOf(ctx, impatient, loaded);
-    exact = exactOf(ctx, input, impatient, stability.stable, loaded);
+    if (!offThread) exact = exactOf(ctx, input, impatient, stability.stable, loaded);
   } catch (e) {
     await running.catch(() => undefined);
     throw e;
   }
   const r = await running;
+  if (!exact) {
+    // the worker's column (the same function on the same model), unless refused or lost (a stopped run)
+    const refused = exactRefused(input, impatient, stability.stable);
+    const column = refused === null ? ((await offThread) as ExactColumn | undefined) : { reason: refused };
+    exact = column ?? exactOf(ctx, input, impatient, stability.stable, loaded);
+  }
   const x = exact.exact;
   const ids = model.ids;
   const by = <T>(f: (k: number) => T): Record<string, T> => Object.fromEntries(ids.map((id, k) => [id, f(k)]));

@@ -34,6 +34,15 @@ export interface DeferredInit {
 /** One unit of work. */
 export type WorkerTask =
   | { readonly kind: 'replication'; readonly index: number; readonly state: Uint32Array }
+  /** A simulation worker's task besides its replications: the exact column (src/exact/column.ts). */
+  | {
+      readonly kind: 'exact';
+      readonly ids: readonly string[];
+      readonly rates: Float64Array;
+      readonly pairs: ReadonlyArray<readonly [number, number]>;
+      readonly maxSets: number;
+      readonly timeUnit: string;
+    }
   | { readonly kind: 'score'; readonly tasks: readonly ScoreTask[] };
 
 /** A task, or (first message of a prestarted worker only) its WorkerInit. */

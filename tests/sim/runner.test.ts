@@ -62,6 +62,41 @@ describe('compiled build: worker threads', () => {
     expect(progress).toBe(5 * (plan.arrivals + plan.warmup));
   });
 
+  it('a side task (the exact column) runs on a worker, before the pool closes, and equals an evaluation in this thread', async () => {
+    const runner = await load<typeof import('../../src/sim/runner.js')>('sim/runner.js');
+    const built = await load<typeof import('../../src/sim/sim-model.js')>('sim/sim-model.js');
+    const { exactColumn } = await import('../../src/exact/column.js');
+    const { edgePairs } = await import('../../src/model/compile.js');
+    const sim = built.buildSimModel(model);
+    const task = { kind: 'exact' as const, ids: model.ids, rates: model.rates, pairs: edgePairs(model), maxSets: 1e6, timeUnit: 'minute' };
+    let accepted: Promise<unknown> | undefined;
+    let calls = 0;
+    const accept = (r: Promise<unknown> | undefined): void => {
+      calls++;
+      accepted = r;
+    };
+    const records = await collect((sink) => runner.runReplications(sim, plan, 8, 4, { jobs: 2, side: { task, accept } }, sink));
+    expect(records).toHaveLength(4);
+    expect(calls).toBe(1);
+    expect(accepted).toBeDefined();
+    const column = (await accepted) as { exact?: { backlogTotal: number; backlog: Float64Array }; reason: string | null };
+    // the reference: the same function run here from the sources (no worker)
+    const here = exactColumn(model.ids, model.rates, edgePairs(model), { maxSets: 1e6, timeUnit: 'minute' });
+    expect(column.reason).toBeNull();
+    expect(column.exact!.backlogTotal).toBe(here.exact!.backlogTotal);
+    expect(Array.from(column.exact!.backlog)).toEqual(Array.from(here.exact!.backlog));
+    // without workers the caller is told to do it itself
+    let without: unknown = 'not called';
+    await collect((sink) => runner.runReplications(sim, plan, 8, 2, { jobs: 1, side: { task, accept: (r) => (without = r) } }, sink));
+    expect(without).toBeUndefined();
+    // a too large design comes back as the reason, not as an error
+    const refused = (await new Promise<unknown>((resolve) => {
+      void runner.runReplications(sim, plan, 8, 2, { jobs: 2, side: { task: { ...task, maxSets: 3 }, accept: (r) => void r!.then(resolve) } }, () => undefined);
+    })) as { exact?: unknown; reason: string | null };
+    expect(refused.exact).toBeUndefined();
+    expect(refused.reason).toMatch(/independent sets/);
+  });
+
   it('workers started before their pool are adopted by it and give the records of this thread', async () => {
     const runner = await load<typeof import('../../src/sim/runner.js')>('sim/runner.js');
     const pool = await load<typeof import('../../src/workers/pool.js')>('workers/pool.js');
