@@ -138,7 +138,12 @@ scenarioFlags(program.command('recommend').description('budgeted design: the Par
   .option('--wait-unit <unit>', 'show waits in this unit (default: automatic)')
   .option('--save <file>', 'write the recommended design (or --pick K) to a design file for --design')
   .option('--pick <k>', 'with --save: the K-th design of the Pareto set (cheapest first) instead of the recommended one')
-  .action((file: string, opts: Record<string, unknown>) => action('recommend', async () => (await import('./commands/recommend.js')).recommendCommand)({ ...opts, file }));
+  .action((file: string, opts: Record<string, unknown>) =>
+    action('recommend', async () => {
+      await (await import('./prestart.js')).prestartScoring(opts); // workers boot while the command loads
+      return (await import('./commands/recommend.js')).recommendCommand;
+    })({ ...opts, file }),
+  );
 
 scoringFlags(program
   .command('compare'), null)

@@ -23,3 +23,14 @@ export async function prestartSimulation(opts: { readonly jobs?: unknown; readon
   const { prestartWorkers } = await import('../workers/pool.js');
   prestartWorkers('simulate', count);
 }
+
+/**
+ * `recommend --jobs N` (N ≥ 2): the N scoring workers of its pool (src/design/scoring/scorer.ts),
+ * booting while this thread loads the command, reads the file and runs the MILP stage.
+ */
+export async function prestartScoring(opts: { readonly jobs?: unknown }): Promise<void> {
+  const count = opts.jobs === undefined ? 1 : Math.min(Number(opts.jobs), 256);
+  if (!Number.isSafeInteger(count) || count < 2) return;
+  const { prestartWorkers } = await import('../workers/pool.js');
+  prestartWorkers('score', count);
+}

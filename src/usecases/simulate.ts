@@ -189,10 +189,11 @@ export async function simulateUseCase(ctx: ScenarioContext, input: SimulateInput
   }
   const r = await running;
   if (!exact) {
-    // the worker's column (the same function on the same model), unless refused or lost (a stopped run)
+    // the worker's column (the same function on the same model), unless refused; a run stopped
+    // (SIGINT) before the worker finished it answers at once, without it
     const refused = exactRefused(input, impatient, stability.stable);
     const column = refused === null ? ((await offThread) as ExactColumn | undefined) : { reason: refused };
-    exact = column ?? exactOf(ctx, input, impatient, stability.stable, loaded);
+    exact = column ?? (r.partial ? { reason: 'the run was interrupted before the exact values were computed' } : exactOf(ctx, input, impatient, stability.stable, loaded));
   }
   const x = exact.exact;
   const ids = model.ids;

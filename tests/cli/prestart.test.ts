@@ -1,5 +1,5 @@
 import { describe, expect, it } from 'vitest';
-import { DEFAULT_REPLICATIONS, prestartSimulation } from '../../src/cli/prestart.js';
+import { DEFAULT_REPLICATIONS, prestartScoring, prestartSimulation } from '../../src/cli/prestart.js';
 import { SIM_DEFAULTS } from '../../src/sim/simulate.js';
 import { pendingPrestarted } from '../../src/workers/pool.js';
 
@@ -12,6 +12,7 @@ describe('workers started before simulate loads (src/cli/prestart.ts)', () => {
     // from sources workerUrl() is undefined: the pool runs everything in this thread (pool.ts)
     await prestartSimulation({ jobs: '4', replications: '8' });
     await prestartSimulation({ jobs: 'many' });
+    await prestartScoring({ jobs: '2' });
     expect(pendingPrestarted()).toBe(0);
   });
 });

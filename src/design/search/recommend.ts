@@ -468,6 +468,9 @@ function fullCost(problem: DesignProblem): number {
   return designCost(problem, Uint8Array.from(problem.toggles, () => 1));
 }
 
+/** At most this many designs after an exact search are scored in this thread rather than on new workers. */
+const FEW_FOR_WORKERS = 16;
+
 export async function recommend(problem: DesignProblem, options: RecommendOptions = {}): Promise<Recommendation> {
   const objective = options.objective ?? 'total';
   if (needsMatchRates(objective) && !problem.hasValues) throw new UsageError(NO_VALUES_MESSAGE);
@@ -606,7 +609,10 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       // interrupted: a quick re-score in this thread (the search's length, 5 replications) so the
       // partial answer comes within seconds; the figures keep their intervals
       const quick = { ...finalSpec, sim: { ...finalSpec.sim!, arrivals: spec.sim!.arrivals, warmup: spec.sim!.warmup, replications: 5 } };
-      const rescorer = partial ? inThreadScorer(quick) : createScorer(finalSpec, options.jobs ?? 1, url);
+      // after an exact search the few designs left (baselines, today's) are small exact ones: a
+      // fresh pool of workers would take longer to start than to score them
+      const inThread = partial || (!simulatedSearch && batch.length <= FEW_FOR_WORKERS);
+      const rescorer = inThread ? inThreadScorer(partial ? quick : finalSpec) : createScorer(finalSpec, options.jobs ?? 1, url);
       let scores: Score[];
       try {
         scores = await rescorer.score(batch);
