@@ -192,11 +192,15 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
   const sign = objectiveSign(input.objective);
   checkDesignSize(p.n, p.toggles.length, 'recommend');
   const todayStability = checkStability(ctx.today);
-  const instability = todayStability.stable ? null : await instabilityOf(ctx, certificateWithIds(ctx.today, todayStability.certificate!));
+  // today's repairs (HiGHS, in this thread) are worked out while the search waits for its scores:
+  // with --jobs 2 and more they overlap the workers' scoring instead of coming before it
+  const instabilityRun = todayStability.stable ? Promise.resolve(null) : instabilityOf(ctx, certificateWithIds(ctx.today, todayStability.certificate!));
+  void instabilityRun.catch(() => undefined); // awaited below, after the search
   let rec: Recommendation;
   try {
     rec = await recommend(p, input);
   } catch (e) {
+    const instability = await instabilityRun.catch(() => null);
     const o = instability?.noRepair?.overloaded;
     if (e instanceof InfeasibleDesignError && instability?.noRepair && o && o.set.length > 0) {
       throw new InfeasibleDesignError(
@@ -206,6 +210,7 @@ export async function recommendUseCase(ctx: ScenarioContext, input: RecommendInp
     }
     throw e;
   }
+  const instability = await instabilityRun;
   const parts = decisionOf(ctx, rec, input);
   const todayDetails = rec.today ?? designDetails(p, input.objective, Uint8Array.from(p.today), input.maxSets);
   const decision = decisionPart(ctx, input, parts, todayDetails, rec.partial);

@@ -468,8 +468,12 @@ function fullCost(problem: DesignProblem): number {
   return designCost(problem, Uint8Array.from(problem.toggles, () => 1));
 }
 
-/** At most this many designs after an exact search are scored in this thread rather than on new workers. */
-const FEW_FOR_WORKERS = 16;
+/**
+ * After an exact search, the designs re-scored with per-class figures (the front, the baselines,
+ * today's) are scored in this thread rather than on a new pool of workers when their independent
+ * sets add up to at most this (about 0.2 s of work; starting two workers costs about 0.15 s).
+ */
+const IN_THREAD_SETS = 1_000_000;
 
 export async function recommend(problem: DesignProblem, options: RecommendOptions = {}): Promise<Recommendation> {
   const objective = options.objective ?? 'total';
@@ -609,9 +613,10 @@ export async function recommend(problem: DesignProblem, options: RecommendOption
       // interrupted: a quick re-score in this thread (the search's length, 5 replications) so the
       // partial answer comes within seconds; the figures keep their intervals
       const quick = { ...finalSpec, sim: { ...finalSpec.sim!, arrivals: spec.sim!.arrivals, warmup: spec.sim!.warmup, replications: 5 } };
-      // after an exact search the few designs left (baselines, today's) are small exact ones: a
-      // fresh pool of workers would take longer to start than to score them
-      const inThread = partial || (!simulatedSearch && batch.length <= FEW_FOR_WORKERS);
+      // after an exact search, designs of the front's size: when they are small a fresh pool of
+      // workers would take longer to start than to score them all here
+      const sets = Math.max(1, ...contenders.map((r) => r.independentSets));
+      const inThread = partial || (!simulatedSearch && batch.length * sets <= IN_THREAD_SETS);
       const rescorer = inThread ? inThreadScorer(partial ? quick : finalSpec) : createScorer(finalSpec, options.jobs ?? 1, url);
       let scores: Score[];
       try {
