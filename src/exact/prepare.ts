@@ -58,12 +58,10 @@ function identity(m: number): Int32Array {
   return out;
 }
 
+/** The end of the refusal's advice that points to simulation (left out where one is running). */
+export const SIMULATION_ADVICE = ', or estimate with `edgewise simulate`';
+
 /** The refusal used whenever a count passes a memory guard. */
 export function tooManySets(count: number, limit: number, guard: string): TooLargeError {
-  return new TooLargeError(
-    `the design has more than ${limit.toLocaleString('en-US')} independent sets (${guard}); ` +
-      'raise --max-sets if memory allows, or estimate with `edgewise simulate`',
-    count,
-    limit,
-  );
+  return new TooLargeError(`the design has more than ${limit.toLocaleString('en-US')} independent sets (${guard}); raise --max-sets if memory allows${SIMULATION_ADVICE}`, count, limit);
 }

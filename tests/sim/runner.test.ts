@@ -95,6 +95,8 @@ describe('compiled build: worker threads', () => {
     })) as { exact?: unknown; reason: string | null };
     expect(refused.exact).toBeUndefined();
     expect(refused.reason).toMatch(/independent sets/);
+    expect(refused.reason).toMatch(/raise --max-sets/);
+    expect(refused.reason).not.toMatch(/edgewise simulate/); // said beside a simulation
   });
 
   it('workers started before their pool are adopted by it and give the records of this thread', async () => {
