@@ -4,10 +4,9 @@
  * boundary). One function for this thread and for a simulation worker (src/workers/worker.ts),
  * which computes it alongside the replications under `--jobs 2` and more.
  */
-import { EdgewiseError, TooLargeError } from '../errors.js';
+import { EdgewiseError } from '../errors.js';
 import { compileGraph } from '../model/compile.js';
 import { evaluateExact, type ExactOptions } from './evaluate.js';
-import { SIMULATION_ADVICE } from './prepare.js';
 import type { ExactResult } from './result.js';
 
 export interface ExactColumn {
@@ -17,10 +16,9 @@ export interface ExactColumn {
 
 export function exactColumn(ids: readonly string[], rates: ArrayLike<number>, pairs: ReadonlyArray<readonly [number, number]>, options: ExactOptions): ExactColumn {
   try {
-    return { exact: evaluateExact(compileGraph(ids, rates, pairs), options), reason: null };
+    // beside a simulation, a refusal's advice to simulate instead would be beside the point
+    return { exact: evaluateExact(compileGraph(ids, rates, pairs), { ...options, adviseSimulation: false }), reason: null };
   } catch (e) {
-    // beside a simulation, the guard's advice to simulate instead would be beside the point
-    if (e instanceof TooLargeError) return { reason: e.message.replace(SIMULATION_ADVICE, '') };
     if (e instanceof EdgewiseError) return { reason: e.message };
     throw e;
   }

@@ -11,6 +11,11 @@ export interface ExactOptions {
   readonly maxSets?: number;
   /** Time unit used in the messages of errors. */
   readonly timeUnit?: string;
+  /**
+   * Refusals for size end with the advice to estimate by simulation (default true; false where a
+   * simulation is what runs, as beside `simulate`'s estimates: exact/column.ts).
+   */
+  readonly adviseSimulation?: boolean;
 }
 
 /**
@@ -51,7 +56,7 @@ export function evaluateExact(model: CompiledModel, options: ExactOptions = {}):
 
 function evaluateScaled(model: CompiledModel, original: CompiledModel, options: ExactOptions): Omit<ExactResult, 'wait'> {
   const maxSets = options.maxSets ?? DEFAULT_MAX_SETS;
-  const { parts, total } = prepareComponents(model, maxSets);
+  const { parts, total } = prepareComponents(model, maxSets, undefined, options.adviseSimulation);
 
   const n = model.n;
   const backlog = new Float64Array(n);
@@ -104,7 +109,7 @@ export function evaluateBacklog(model: CompiledModel, options: ExactOptions = {}
   const original = model;
   model = scaledModel(model).working;
   const maxSets = options.maxSets ?? DEFAULT_MAX_SETS;
-  const { parts, total } = prepareComponents(model, maxSets);
+  const { parts, total } = prepareComponents(model, maxSets, undefined, options.adviseSimulation);
   let backlog = 0;
   let empty = 1;
   const tol = SATURATION * model.totalRate;

@@ -20,13 +20,15 @@ export interface PreparedComponent {
 /**
  * Splits a design into connected components (independent subsystems) and counts each one's
  * independent sets, refusing with TooLargeError as soon as the total passes `maxSets` or a
- * component has more than 64 classes. `guard` names the memory guard in the message. `of[k]` is
- * the index in `parts` of class k's component.
+ * component has more than 64 classes. `guard` names the memory guard in the message; `advise`
+ * ends it with the advice to simulate instead. `of[k]` is the index in `parts` of class k's
+ * component.
  */
 export function prepareComponents(
   model: CompiledModel,
   maxSets: number,
   guard = 'the exact evaluation’s memory guard; about 40 bytes each',
+  advise = true,
 ): { parts: PreparedComponent[]; total: number; of: Int32Array } {
   const parts: PreparedComponent[] = [];
   let total = 0;
@@ -34,8 +36,8 @@ export function prepareComponents(
   for (const members of comps.members) {
     if (members.length > MAX_COMPONENT_CLASSES) {
       throw new TooLargeError(
-        `a connected group of ${members.length} classes is beyond exact evaluation (at most ${MAX_COMPONENT_CLASSES} per group); ` +
-          'estimate it with `edgewise simulate`',
+        `a connected group of ${members.length} classes is beyond exact evaluation (at most ${MAX_COMPONENT_CLASSES} per group)` +
+          (advise ? '; estimate it with `edgewise simulate`' : ''),
         Infinity,
         maxSets,
       );
@@ -46,7 +48,7 @@ export function prepareComponents(
     const g = maskGraph(sub);
     const count = countIndependentSets(g, maxSets - total);
     total += count;
-    if (total > maxSets) throw tooManySets(total, maxSets, guard);
+    if (total > maxSets) throw tooManySets(total, maxSets, guard, advise);
     parts.push({ members, sub, edgeMap, g, count });
   }
   return { parts, total, of: comps.of };
@@ -58,10 +60,12 @@ function identity(m: number): Int32Array {
   return out;
 }
 
-/** The end of the refusal's advice that points to simulation (left out where one is running). */
-export const SIMULATION_ADVICE = ', or estimate with `edgewise simulate`';
-
-/** The refusal used whenever a count passes a memory guard. */
-export function tooManySets(count: number, limit: number, guard: string): TooLargeError {
-  return new TooLargeError(`the design has more than ${limit.toLocaleString('en-US')} independent sets (${guard}); raise --max-sets if memory allows${SIMULATION_ADVICE}`, count, limit);
+/** The refusal used whenever a count passes a memory guard (`advise`: and the advice to simulate instead). */
+export function tooManySets(count: number, limit: number, guard: string, advise = true): TooLargeError {
+  return new TooLargeError(
+    `the design has more than ${limit.toLocaleString('en-US')} independent sets (${guard}); ` +
+      `raise --max-sets if memory allows${advise ? ', or estimate with `edgewise simulate`' : ''}`,
+    count,
+    limit,
+  );
 }
