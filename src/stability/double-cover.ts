@@ -22,6 +22,52 @@ import type { CompiledModel } from '../model/compile.js';
 import { FlowNetwork } from './maxflow.js';
 import { scratchOf } from './scratch.js';
 
+/** The network H of one component, as built by coverNetwork. */
+export interface CoverNetwork {
+  readonly net: FlowNetwork;
+  /** Arc s → i' and arc i'' → sink of each member (local index i). */
+  readonly sourceArc: Int32Array;
+  readonly sinkArc: Int32Array;
+  /** The arc i' → j'' of each adjacency entry and self-loop, with the edge it stands for. */
+  readonly pairArcs: ReadonlyArray<{ readonly arc: number; readonly edge: number }>;
+  /** λ(C). */
+  readonly demand: number;
+}
+
+/**
+ * H for the members of one component: node 0 the source, 1 the sink, 2 + i the left copy and
+ * 2 + |C| + i the right copy of member i; the arcs s → i' and i'' → sink of capacity
+ * `capacity(k)` for class k, and the infinite arcs i' → j'' of its compatibilities. Residuals below
+ * 2^-50 of λ(C) count as zero (sets at relative slack 1e-12 stay visible).
+ */
+export function coverNetwork(model: CompiledModel, members: ArrayLike<number>, capacity: (k: number) => number): CoverNetwork {
+  const nC = members.length;
+  const local = scratchOf(model).local;
+  for (let i = 0; i < nC; i++) local[members[i]!] = i;
+  let total = 0;
+  let arcs = 2 * nC;
+  for (let i = 0; i < nC; i++) {
+    const k = members[i]!;
+    total += model.rates[k]!;
+    arcs += model.adjStart[k + 1]! - model.adjStart[k]! + model.selfLoop[k]!;
+  }
+  const net = new FlowNetwork(2 + 2 * nC, arcs, 2 ** -50 * total);
+  const sourceArc = new Int32Array(nC);
+  const sinkArc = new Int32Array(nC);
+  const pairArcs: Array<{ arc: number; edge: number }> = [];
+  for (let i = 0; i < nC; i++) {
+    const k = members[i]!;
+    sourceArc[i] = net.addArc(0, 2 + i, capacity(k));
+    sinkArc[i] = net.addArc(2 + nC + i, 1, capacity(k));
+    if (model.selfLoop[k]) pairArcs.push({ arc: net.addArc(2 + i, 2 + nC + i, Infinity), edge: model.selfEdge[k]! });
+    for (let p = model.adjStart[k]!; p < model.adjStart[k + 1]!; p++) {
+      pairArcs.push({ arc: net.addArc(2 + i, 2 + nC + local[model.adj[p]!]!, Infinity), edge: model.adjEdge[p]! });
+    }
+  }
+  for (let i = 0; i < nC; i++) local[members[i]!] = -1;
+  return { net, sourceArc, sinkArc, pairArcs, demand: total };
+}
+
 export class DoubleCover {
   private readonly net: FlowNetwork;
   private readonly members: Int32Array;
@@ -35,31 +81,12 @@ export class DoubleCover {
   private readonly big: number;
 
   constructor(model: CompiledModel, members: ArrayLike<number>) {
-    const nC = members.length;
     this.members = Int32Array.from(members);
-    const local = scratchOf(model).local;
-    for (let i = 0; i < nC; i++) local[members[i]!] = i;
-    let total = 0;
-    let arcs = 2 * nC;
-    for (let i = 0; i < nC; i++) {
-      const k = members[i]!;
-      total += model.rates[k]!;
-      arcs += model.adjStart[k + 1]! - model.adjStart[k]! + model.selfLoop[k]!;
-    }
-    this.demand = total;
-    this.big = 4 * total + 1;
-    // residuals below 2^-50 of the component's rate are rounding noise (sets at relative slack 1e-12 stay visible)
-    const net = new FlowNetwork(2 + 2 * nC, arcs, 2 ** -50 * total);
-    this.sourceArc = new Int32Array(nC);
-    this.sinkArc = new Int32Array(nC);
-    for (let i = 0; i < nC; i++) {
-      const k = members[i]!;
-      this.sourceArc[i] = net.addArc(0, 2 + i, model.rates[k]!);
-      this.sinkArc[i] = net.addArc(2 + nC + i, 1, model.rates[k]!);
-      if (model.selfLoop[k]) net.addArc(2 + i, 2 + nC + i, Infinity);
-      for (let p = model.adjStart[k]!; p < model.adjStart[k + 1]!; p++) net.addArc(2 + i, 2 + nC + local[model.adj[p]!]!, Infinity);
-    }
-    for (let i = 0; i < nC; i++) local[members[i]!] = -1;
+    const { net, sourceArc, sinkArc, demand } = coverNetwork(model, members, (k) => model.rates[k]!);
+    this.demand = demand;
+    this.big = 4 * demand + 1;
+    this.sourceArc = sourceArc;
+    this.sinkArc = sinkArc;
     this.maxFlow = net.augment(0, 1);
     this.base = net.snapshot();
     this.net = net;

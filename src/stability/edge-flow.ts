@@ -23,7 +23,7 @@
  * Components here are connected and not bipartite, or a bipartite one with a self-loop.
  */
 import type { CompiledModel } from '../model/compile.js';
-import { FlowNetwork } from './maxflow.js';
+import { coverNetwork, type CoverNetwork } from './double-cover.js';
 import { scratchOf } from './scratch.js';
 import { flowScale } from './tolerance.js';
 
@@ -38,52 +38,35 @@ export interface LeastEdgeFlow {
 }
 
 export function leastEdgeFlow(model: CompiledModel, members: Int32Array): LeastEdgeFlow | null {
+  // H with no capacity yet on its source and sink arcs: each round sets b(t)
+  const cover = coverNetwork(model, members, () => 0);
   const nC = members.length;
   const { local, markA: inN } = scratchOf(model);
   for (let i = 0; i < nC; i++) local[members[i]!] = i;
   try {
-    return newton(model, members, local, inN);
+    return newton(model, members, cover, local, inN);
   } finally {
     for (let i = 0; i < nC; i++) local[members[i]!] = -1;
   }
 }
 
-function newton(model: CompiledModel, members: Int32Array, local: Int32Array, inN: Uint8Array): LeastEdgeFlow | null {
+function newton(model: CompiledModel, members: Int32Array, cover: CoverNetwork, local: Int32Array, inN: Uint8Array): LeastEdgeFlow | null {
   const nC = members.length;
+  const { net, sourceArc, sinkArc, pairArcs, demand: total } = cover;
   const rate = new Float64Array(nC);
   const degree = new Float64Array(nC);
-  let arcs = 2 * nC;
-  let total = 0;
   for (let i = 0; i < nC; i++) {
     const k = members[i]!;
-    const adjacent = model.adjStart[k + 1]! - model.adjStart[k]!;
     rate[i] = model.rates[k]!;
-    degree[i] = adjacent + 2 * model.selfLoop[k]!;
-    total += rate[i]!;
-    arcs += adjacent + model.selfLoop[k]!;
-  }
-  // the same rounding floor as the double cover's cuts (double-cover.ts)
-  const net = new FlowNetwork(2 + 2 * nC, arcs, 2 ** -50 * total);
-  const sourceArc = new Int32Array(nC);
-  const sinkArc = new Int32Array(nC);
-  /** The arc i' → j'' of each adjacency entry and self-loop, with its edge, to read the flow back. */
-  const pairArc: Array<{ arc: number; edge: number }> = [];
-  for (let i = 0; i < nC; i++) {
-    const k = members[i]!;
-    sourceArc[i] = net.addArc(0, 2 + i, 0);
-    sinkArc[i] = net.addArc(2 + nC + i, 1, 0);
-    if (model.selfLoop[k]) pairArc.push({ arc: net.addArc(2 + i, 2 + nC + i, Infinity), edge: model.selfEdge[k]! });
-    for (let p = model.adjStart[k]!; p < model.adjStart[k + 1]!; p++) {
-      pairArc.push({ arc: net.addArc(2 + i, 2 + nC + local[model.adj[p]!]!, Infinity), edge: model.adjEdge[p]! });
-    }
+    degree[i] = model.adjStart[k + 1]! - model.adjStart[k]! + 2 * model.selfLoop[k]!;
   }
   const empty = net.snapshot();
   const done = (t: number): LeastEdgeFlow => ({
     minEdgeFlow: t,
     writeFlow(flow: Float64Array): void {
-      for (const { edge } of pairArc) flow[edge] = t;
+      for (const { edge } of pairArcs) flow[edge] = t;
       // x_ij = (f(i'→j'') + f(j'→i''))/2: each direction is one adjacency arc; x_ii = f(i'→i'')/2
-      for (const { arc, edge } of pairArc) flow[edge] = flow[edge]! + net.flowOn(arc) / 2;
+      for (const { arc, edge } of pairArcs) flow[edge] = flow[edge]! + net.flowOn(arc) / 2;
     },
   });
 
