@@ -18,9 +18,6 @@ import { valueRate as sumValue } from '../../model/values.js';
 import { needsMatchRates, objectiveValue, type ObjectiveName } from '../space/objective.js';
 import { admissibleBeforeEvaluation, designCost, designPairs, designPairValues, type DesignProblem } from '../space/problem.js';
 
-/** Designs with fewer independent sets have their single changes evaluated afresh. */
-const FRESH_BELOW_SETS = REUSE_MIN_SETS;
-
 /** What a design does, as far as the decision is concerned. */
 export interface DesignOutcome {
   readonly stable: boolean;
@@ -114,7 +111,7 @@ export function singleChanges(
   const model = compileGraph(problem.ids, problem.rates, designPairs(problem, design));
   // a small design is evaluated afresh faster than the single-change evaluator is prepared
   // (src/design/scoring/reuse.ts: below REUSE_MIN_SETS sets one evaluation takes under 0.2 ms)
-  if (countIndependentSets(maskGraph(model), FRESH_BELOW_SETS) < FRESH_BELOW_SETS) return freshChanges(problem, objective, design, options);
+  if (countIndependentSets(maskGraph(model), REUSE_MIN_SETS) < REUSE_MIN_SETS) return freshChanges(problem, objective, design, options);
   let ev;
   try {
     ev = singleChangeEvaluator(model, options.maxSets === undefined ? {} : { maxSets: options.maxSets });
